@@ -1,0 +1,21 @@
+package response
+
+import "errors"
+
+// Sentinel errors. Every error returned by this package wraps one of them
+// (or filter.ErrSpec for a bad mask), so callers can match with errors.Is;
+// the message names the offending argument.
+var (
+	// ErrSystem reports a transfer function that the operation cannot use:
+	// more zeros than poles, a non-finite gain, pole or zero, complex poles
+	// or zeros without their conjugates, an unstable system where a
+	// settled response is needed, or a System that returns NaN.
+	ErrSystem = errors.New("response: unusable system")
+	// ErrGrid reports a bad frequency or time argument: NaN, infinite,
+	// negative (times) or not positive (frequencies), or a band whose lower
+	// edge is not below its upper edge.
+	ErrGrid = errors.New("response: bad frequency or time argument")
+	// ErrNoCrossing reports that the gain does not cross the requested
+	// level within the band searched.
+	ErrNoCrossing = errors.New("response: no crossing of the level")
+)
