@@ -1,0 +1,338 @@
+package mna
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/cmplx"
+
+	"gonum.org/v1/gonum/mat"
+)
+
+// CoefTol is the relative level below which a recovered polynomial
+// coefficient is set to exactly zero: a coefficient c_j with
+// |c_j|·r^j < CoefTol·max_k |c_k|·r^k, r the sampling radius. It is far
+// above the rounding of the LU solves (about 1e-15 of the largest scaled
+// coefficient for the small, well-scaled systems of filter stages) and far
+// below any coefficient that matters: a structural zero of a highpass
+// numerator comes out as exactly 0, not 1e-20.
+const CoefTol = 1e-11
+
+// ErrDegree reports coefficient slices of the wrong length, or a
+// polynomial without a non-zero coefficient where one is needed.
+var ErrDegree = errors.New("mna: bad polynomial degree")
+
+// RadiusOf returns a sampling radius in rad/s for the circuit's values:
+// 1/(Rg·Cg), with Rg and Cg the geometric means of its resistor and
+// capacitor values, the natural frequency of a circuit whose time constants
+// are all alike. It is 1 for a circuit without resistors or capacitors.
+func RadiusOf(n *Netlist, values []float64) float64 {
+	var lr, lc float64
+	var nr, nc int
+	for _, e := range n.Elements {
+		switch e.Kind {
+		case Resistor:
+			lr += math.Log(values[e.Value])
+			nr++
+		case Capacitor:
+			lc += math.Log(values[e.Value])
+			nc++
+		}
+	}
+	if nr == 0 || nc == 0 {
+		return 1
+	}
+	r := math.Exp(-lr/float64(nr) - lc/float64(nc))
+	if !(r > 0) || math.IsInf(r, 0) {
+		return 1
+	}
+	return r
+}
+
+// Coefficients writes the numerator and denominator coefficients of n's
+// transfer H(s) = N(s)/D(s) into num and den, ascending powers of s (s in
+// rad/s), scaled so that the highest non-zero coefficient of den is 1.
+// len(num) and len(den) must be equal and at least n.Degree(a)+1; more is
+// allowed (the extra coefficients come out zero). radius is the sampling
+// radius in rad/s (RadiusOf gives a good one). Coefficients below CoefTol of
+// the largest are set to zero. It does not allocate.
+//
+// The error wraps ErrSingular when the circuit is singular at a sample
+// point (a pole in the right half-plane or on the jω axis) and ErrDegree for
+// slices of the wrong length or a zero denominator.
+func (w *Workspace) Coefficients(n *Netlist, values []float64, a Amp, radius float64, num, den []float64) error {
+	m := len(den)
+	if len(num) != m || m < n.Degree(a)+1 || m > MaxDim+1 {
+		return ErrDegree
+	}
+	if !(radius > 0) || math.IsInf(radius, 0) {
+		return ErrValue
+	}
+	// Sample points z_k = exp(iθ_k), θ_k from −π/2 to π/2; evaluate the
+	// upper half (θ ≥ 0), the lower half is the conjugate.
+	var pn, pd [MaxDim + 1]complex128
+	var zs [MaxDim + 1]complex128
+	for k := range m {
+		theta := 0.0
+		if m > 1 {
+			theta = math.Pi * (float64(k)/float64(m-1) - 0.5)
+		}
+		zs[k] = cmplx.Rect(1, theta)
+		if theta < 0 {
+			continue
+		}
+		h, det, err := w.Transfer(n, values, a, complex(radius, 0)*zs[k])
+		if err != nil {
+			return err
+		}
+		pd[k], pn[k] = det, h*det
+	}
+	// Real interpolation system V·c = p: one real row per real sample point,
+	// two (real and imaginary parts) per sample above the real axis.
+	var v [(MaxDim + 1) * (MaxDim + 1)]float64
+	var rn, rd [MaxDim + 1]float64
+	row := 0
+	for k := range m {
+		if imag(zs[k]) < 0 || row >= m {
+			continue
+		}
+		z := zs[k]
+		zp := complex(1, 0)
+		two := imag(z) > 1e-300 && row+1 < m
+		for j := range m {
+			v[row*m+j] = real(zp)
+			if two {
+				v[(row+1)*m+j] = imag(zp)
+			}
+			zp *= z
+		}
+		rn[row], rd[row] = real(pn[k]), real(pd[k])
+		if two {
+			rn[row+1], rd[row+1] = imag(pn[k]), imag(pd[k])
+			row++
+		}
+		row++
+	}
+	if err := solveReal(v[:m*m], rn[:m], rd[:m], m); err != nil {
+		return err
+	}
+	// Zero the rounding-level coefficients, undo the scaling s = r·z, and
+	// make den monic.
+	clean := func(c []float64) {
+		big := 0.0
+		for _, x := range c {
+			big = math.Max(big, math.Abs(x))
+		}
+		for j, x := range c {
+			if math.Abs(x) < CoefTol*big {
+				c[j] = 0
+			}
+		}
+	}
+	clean(rn[:m])
+	clean(rd[:m])
+	lead := -1
+	for j := m - 1; j >= 0; j-- {
+		if rd[j] != 0 {
+			lead = j
+			break
+		}
+	}
+	if lead < 0 {
+		return fmt.Errorf("mna: denominator is identically zero: %w", ErrDegree)
+	}
+	// Divide by rd[lead]·r^lead and scale coefficient j by r^(lead−j)
+	// without forming large powers: c_j/r^j / (d_lead/r^lead).
+	for j := range m {
+		sc := math.Pow(radius, float64(lead-j)) / rd[lead]
+		num[j] = rn[j] * sc
+		den[j] = rd[j] * sc
+	}
+	return nil
+}
+
+// solveReal solves V·x = b1 and V·x = b2 in place (b1, b2 overwritten by
+// the solutions) by Gaussian elimination with partial pivoting.
+func solveReal(v, b1, b2 []float64, m int) error {
+	for c := range m {
+		p, best := c, 0.0
+		for r := c; r < m; r++ {
+			if a := math.Abs(v[r*m+c]); a > best {
+				p, best = r, a
+			}
+		}
+		if best == 0 {
+			return ErrSingular
+		}
+		if p != c {
+			for j := range m {
+				v[p*m+j], v[c*m+j] = v[c*m+j], v[p*m+j]
+			}
+			b1[p], b1[c] = b1[c], b1[p]
+			b2[p], b2[c] = b2[c], b2[p]
+		}
+		inv := 1 / v[c*m+c]
+		for r := c + 1; r < m; r++ {
+			f := v[r*m+c] * inv
+			for j := c + 1; j < m; j++ {
+				v[r*m+j] -= f * v[c*m+j]
+			}
+			b1[r] -= f * b1[c]
+			b2[r] -= f * b2[c]
+		}
+	}
+	for r := m - 1; r >= 0; r-- {
+		x1, x2 := b1[r], b2[r]
+		for j := r + 1; j < m; j++ {
+			x1 -= v[r*m+j] * b1[j]
+			x2 -= v[r*m+j] * b2[j]
+		}
+		b1[r] = x1 / v[r*m+r]
+		b2[r] = x2 / v[r*m+r]
+	}
+	return nil
+}
+
+// Rational is a ratio of real polynomials, coefficients in ascending powers
+// of s (s in rad/s): H(s) = Σ Num[j]·s^j / Σ Den[j]·s^j. Trailing zero
+// coefficients are trimmed, so len−1 is the degree; Den's last coefficient
+// is 1.
+type Rational struct {
+	Num, Den []float64
+}
+
+// RationalOf returns the transfer of n with values and op-amp model a as a
+// Rational, sampled at radius (0: RadiusOf). See Coefficients.
+func RationalOf(n *Netlist, values []float64, a Amp, radius float64) (Rational, error) {
+	if err := n.Check(len(values)); err != nil {
+		return Rational{}, err
+	}
+	if err := CheckValues(values); err != nil {
+		return Rational{}, err
+	}
+	if err := a.Check(); err != nil {
+		return Rational{}, err
+	}
+	if radius == 0 {
+		radius = RadiusOf(n, values)
+	}
+	m := n.Degree(a) + 1
+	num, den := make([]float64, m), make([]float64, m)
+	var w Workspace
+	if err := w.Coefficients(n, values, a, radius, num, den); err != nil {
+		return Rational{}, err
+	}
+	return Rational{Num: trim(num), Den: trim(den)}, nil
+}
+
+func trim(c []float64) []float64 {
+	for len(c) > 1 && c[len(c)-1] == 0 {
+		c = c[:len(c)-1]
+	}
+	return c
+}
+
+// At evaluates r at s by Horner's rule.
+func (r Rational) At(s complex128) complex128 {
+	return horner(r.Num, s) / horner(r.Den, s)
+}
+
+func horner(c []float64, s complex128) complex128 {
+	var v complex128
+	for j := len(c) - 1; j >= 0; j-- {
+		v = v*s + complex(c[j], 0)
+	}
+	return v
+}
+
+// ZerosPoles returns the roots of Num (zeros), of Den (poles), and the
+// gain k = Num's leading coefficient / Den's, so that
+// H(s) = k·Π(s − zeros)/Π(s − poles). A zero numerator gives no zeros and
+// k = 0.
+func (r Rational) ZerosPoles() (zeros, poles []complex128, k float64, err error) {
+	poles, err = Roots(r.Den)
+	if err != nil {
+		return nil, nil, 0, err
+	}
+	num := trim(append([]float64(nil), r.Num...))
+	if len(num) == 1 && num[0] == 0 {
+		return nil, poles, 0, nil
+	}
+	zeros, err = Roots(num)
+	if err != nil {
+		return nil, nil, 0, err
+	}
+	return zeros, poles, num[len(num)-1] / r.Den[len(r.Den)-1], nil
+}
+
+// Roots returns the roots of the real polynomial Σ c[j]·s^j (ascending
+// coefficients; the last must be non-zero). Degrees 1 and 2 use closed forms
+// (the quadratic without cancellation); higher degrees the eigenvalues of
+// the companion matrix (gonum's mat.Eigen), each polished by two Newton
+// steps. Complex roots come in conjugate pairs (for degree 2 the one with
+// positive imaginary part first; higher degrees in the eigen solver's
+// order). Accuracy: near machine precision for well-separated roots.
+func Roots(c []float64) ([]complex128, error) {
+	c = trim(c)
+	n := len(c) - 1
+	if n < 0 || c[n] == 0 {
+		return nil, fmt.Errorf("mna: polynomial without a non-zero coefficient: %w", ErrDegree)
+	}
+	for _, x := range c {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return nil, fmt.Errorf("mna: polynomial coefficient %g: %w", x, ErrValue)
+		}
+	}
+	switch n {
+	case 0:
+		return nil, nil
+	case 1:
+		return []complex128{complex(-c[0]/c[1], 0)}, nil
+	case 2:
+		b, q := c[1]/c[2], c[0]/c[2]
+		disc := b*b/4 - q
+		if disc < 0 {
+			im := math.Sqrt(-disc)
+			return []complex128{complex(-b/2, im), complex(-b/2, -im)}, nil
+		}
+		r1 := -b/2 - math.Copysign(math.Sqrt(disc), b)
+		if r1 == 0 {
+			return []complex128{0, 0}, nil
+		}
+		return []complex128{complex(r1, 0), complex(q/r1, 0)}, nil
+	}
+	comp := mat.NewDense(n, n, nil)
+	for i := 1; i < n; i++ {
+		comp.Set(i, i-1, 1)
+	}
+	for i := range n {
+		comp.Set(i, n-1, -c[i]/c[n])
+	}
+	var eig mat.Eigen
+	if !eig.Factorize(comp, mat.EigenNone) {
+		return nil, fmt.Errorf("mna: companion eigenvalues did not converge: %w", ErrDegree)
+	}
+	roots := eig.Values(nil)
+	for i, z := range roots {
+		for range 2 {
+			p, dp := complex(c[n], 0), complex(0, 0)
+			for j := n - 1; j >= 0; j-- {
+				dp = dp*z + p
+				p = p*z + complex(c[j], 0)
+			}
+			if dp == 0 {
+				break
+			}
+			nz := z - p/dp
+			if cmplx.IsNaN(nz) || cmplx.IsInf(nz) {
+				break
+			}
+			z = nz
+		}
+		if math.Abs(imag(z)) <= 1e-14*cmplx.Abs(z) {
+			z = complex(real(z), 0)
+		}
+		roots[i] = z
+	}
+	return roots, nil
+}
