@@ -152,12 +152,6 @@ func TestFormatCode(t *testing.T) {
 	}
 }
 
-// rounded returns v rounded to n significant figures, as the nearest
-// float64 of that decimal.
-func rounded(v float64, n int) float64 {
-	x, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'e', n-1, 64), 64)
-	return x
-}
 
 // TestRoundTrip: formatting then parsing gives back v rounded to the printed
 // figures, bit for bit, in both notations and at every digit count.
