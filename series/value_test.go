@@ -152,7 +152,6 @@ func TestFormatCode(t *testing.T) {
 	}
 }
 
-
 // TestRoundTrip: formatting then parsing gives back v rounded to the printed
 // figures, bit for bit, in both notations and at every digit count.
 func TestRoundTrip(t *testing.T) {
