@@ -11,9 +11,9 @@ var (
 	// or zeros without their conjugates, an unstable system where a
 	// settled response is needed, or a System that returns NaN.
 	ErrSystem = errors.New("response: unusable system")
-	// ErrGrid reports a bad frequency or time argument: NaN, infinite,
-	// negative (times) or not positive (frequencies), or a band whose lower
-	// edge is not below its upper edge.
+	// ErrGrid reports a bad frequency, time or level argument: NaN,
+	// infinite, negative (times) or not positive (frequencies, level
+	// drops), or a band whose lower edge is not below its upper edge.
 	ErrGrid = errors.New("response: bad frequency or time argument")
 	// ErrNoCrossing reports that the gain does not cross the requested
 	// level within the band searched.
