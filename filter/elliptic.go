@@ -1,0 +1,91 @@
+package filter
+
+import (
+	"fmt"
+	"math"
+
+	"github.com/rolloff/rolloff/internal/ellip"
+)
+
+// MaxEllipticOrder is the highest order Elliptic.Prototype accepts; poles,
+// zeros and gain are accurate to 1e-9 relative up to it (see
+// accuracy_test.go).
+const MaxEllipticOrder = 30
+
+// String returns "Elliptic".
+func (Elliptic) String() string { return "Elliptic" }
+
+// MaxOrder returns MaxEllipticOrder.
+func (Elliptic) MaxOrder() int { return MaxEllipticOrder }
+
+// Prototype returns the order-n elliptic (Cauer) lowpass prototype,
+// |H(jω)|² = g²/(1+εp²·Rₙ²(ω)) with Rₙ the elliptic rational function:
+// passband ripple exactly RippleDB on [0, 1] rad/s (passband edge 1 rad/s,
+// maximum 0 dB; for even n, H(0) = 10^(−RippleDB/20)), stopband minimum
+// exactly AttenDB from the stopband edge 1/k rad/s upward, where the
+// selectivity k solves the degree equation for n exactly (so the
+// stopband edge is as low as order n allows).
+//
+// Construction (from memory of the Landen-transformation formulation of
+// S. J. Orfanidis, 2006, equivalent to the classical one of Antoniou,
+// "Digital Filters", ch. 5, and Daniels, 1974): εp² = 10^(RippleDB/10)−1,
+// εs² = 10^(AttenDB/10)−1, discrimination k1 = εp/εs; k from
+// n·K'(k)/K(k) = K'(k1)/K(k1) (ellip.Degree); with uᵢ = (2i−1)/n,
+// i = 1…⌊n/2⌋, zeros ±j/(k·cd(uᵢK, k)) and poles j·cd((uᵢ − j·v0)K, k),
+// where v0 = sc⁻¹(1/εp, k1')/(n·K(k1)) is computed as
+// R_F(εp², εp²+k1², εp²+1)/(n·K(k1)) (DLMF 19.25.5 with 22.15 inverse
+// functions); odd n adds the real pole j·cd((1 − j·v0)K, k). Ordering as in
+// prototype.go; the gain is H(0)·Π(−p)/Π(−z).
+//
+// Accuracy: 1e-9 relative for 1 ≤ n ≤ MaxEllipticOrder and
+// 0 < RippleDB < AttenDB with AttenDB up to a few hundred dB (float64
+// holds εs). Errors: ErrOrder for n outside that range; ErrParam for a
+// RippleDB or AttenDB that is not positive and finite, or AttenDB not
+// above RippleDB.
+func (e Elliptic) Prototype(n int) (Transfer, error) {
+	if err := checkOrder(e.String(), n, MaxEllipticOrder); err != nil {
+		return Transfer{}, err
+	}
+	if err := checkDB(e.String(), "RippleDB", e.RippleDB); err != nil {
+		return Transfer{}, err
+	}
+	if err := checkDB(e.String(), "AttenDB", e.AttenDB); err != nil {
+		return Transfer{}, err
+	}
+	if !(e.AttenDB > e.RippleDB) {
+		return Transfer{}, fmt.Errorf("filter: Elliptic AttenDB %g not above RippleDB %g: %w", e.AttenDB, e.RippleDB, ErrParam)
+	}
+	ep2 := powerRatioM1(e.RippleDB)
+	es2 := powerRatioM1(e.AttenDB)
+	k1 := math.Sqrt(ep2 / es2)
+	// k1' = √(1−k1²) = √((εs²−εp²)/εs²), without cancellation.
+	k1c := math.Sqrt((es2 - ep2) / es2)
+	if !(k1 > 0) || math.IsInf(es2, 1) {
+		return Transfer{}, fmt.Errorf("filter: Elliptic AttenDB %g with RippleDB %g: discrimination out of float64 range: %w", e.AttenDB, e.RippleDB, ErrRange)
+	}
+	k, kc := ellip.Degree(n, k1, k1c)
+	v0 := ellip.RF(ep2, ep2+k1*k1, ep2+1) / (float64(n) * ellip.KComp(k1c))
+	poles := make([]complex128, 0, n)
+	zeros := make([]complex128, 0, n-n%2)
+	for i := 1; i <= n/2; i++ {
+		u := float64(2*i-1) / float64(n)
+		w := ellip.CD(complex(u, -v0), k, kc)
+		p := complex(-math.Abs(imag(w)), math.Abs(real(w))) // j·w, upper member
+		poles = append(poles, p, complex(real(p), -imag(p)))
+		z := 1 / (k * real(ellip.CD(complex(u, 0), k, kc)))
+		zeros = append(zeros, complex(0, z), complex(0, -z))
+	}
+	if n%2 == 1 {
+		w := ellip.CD(complex(1, -v0), k, kc)
+		poles = append(poles, complex(-math.Abs(imag(w)), 0))
+	}
+	h0 := 1.0
+	if n%2 == 0 {
+		h0 = 1 / math.Sqrt(1+ep2)
+	}
+	g, ok := dcGain(h0, zeros, poles)
+	if !ok {
+		return Transfer{}, fmt.Errorf("filter: Elliptic order %d: gain %g not representable: %w", n, g, ErrRange)
+	}
+	return Transfer{Zeros: zeros, Poles: poles, Gain: g}, nil
+}
