@@ -1,0 +1,276 @@
+package series
+
+import (
+	"math"
+	"runtime"
+	"slices"
+	"sync"
+	"sync/atomic"
+)
+
+// bq holds the coefficients of one stage's transfer function,
+// H(s) = (n0 + n1·s + n2·s²) / (d0 + d1·s + d2·s²), s in rad/s.
+type bq struct{ n0, n1, n2, d0, d1, d2 float64 }
+
+// power returns |H(jω)|² at ω² = w2, from real arithmetic:
+// H(jω) = ((n0 − n2ω²) + j·n1ω) / ((d0 − d2ω²) + j·d1ω).
+func (b bq) power(w2 float64) float64 {
+	nr := b.n0 - b.n2*w2
+	dr := b.d0 - b.d2*w2
+	return (nr*nr + b.n1*b.n1*w2) / (dr*dr + b.d1*b.d1*w2)
+}
+
+// evalFunc maps a stage's part values (in the circuit's Parts order) to its
+// coefficients. Each worker owns its own evalFunc; it must not allocate.
+type evalFunc func(values []float64) (bq, error)
+
+// mcStage is one stage of a Monte Carlo run: nominal part values, their
+// tolerances (fractions) and a factory of worker-owned evaluators.
+type mcStage struct {
+	nominal []float64
+	tol     []float64
+	newEval func() evalFunc
+}
+
+// mcPlan is everything a run needs, precomputed: stages, ω² per frequency,
+// and power bounds per frequency (loP <= |H|² <= hiP; 0 and +Inf where a
+// frequency is not constrained). checked lists the constrained frequencies.
+type mcPlan struct {
+	stages   []mcStage
+	w2       []float64
+	loP, hiP []float64
+	checked  []int
+	dist     Distribution
+	trials   int
+	seed     uint64
+	workers  int
+	keepDB   bool // keep every trial's gain (for percentiles)
+	moments  bool // mean and standard deviation of the gain in dB
+}
+
+// blockSize is the number of consecutive trials a worker takes at a time.
+// Moments are reduced per block and the blocks merged in block order, so
+// the result does not depend on the number of workers.
+const blockSize = 64
+
+type mcOut struct {
+	passed, failed int
+	mean, std      []float64 // per frequency, dB (moments)
+	db             []float64 // trials × len(w2), dB, row-major; NaN rows for failed trials
+}
+
+type blockStats struct {
+	n        int
+	mean, m2 []float64
+}
+
+// run executes the plan on plan.workers goroutines.
+func (p *mcPlan) run() mcOut {
+	nf := len(p.w2)
+	nblocks := (p.trials + blockSize - 1) / blockSize
+	var out mcOut
+	if p.keepDB {
+		out.db = make([]float64, p.trials*nf)
+	}
+	var blocks []blockStats
+	if p.moments {
+		blocks = make([]blockStats, nblocks)
+		for i := range blocks {
+			blocks[i] = blockStats{mean: make([]float64, nf), m2: make([]float64, nf)}
+		}
+	}
+	workers := p.workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = max(1, min(workers, nblocks))
+	var next atomic.Int64
+	var passed, failed atomic.Int64
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			ps, fs := p.work(&next, nblocks, out.db, blocks)
+			passed.Add(int64(ps))
+			failed.Add(int64(fs))
+		}()
+	}
+	wg.Wait()
+	out.passed, out.failed = int(passed.Load()), int(failed.Load())
+	if p.moments {
+		out.mean, out.std = mergeBlocks(blocks, nf)
+	}
+	return out
+}
+
+// work runs blocks until none is left and returns its pass and fail
+// counts. Everything it allocates, it allocates before the first trial.
+func (p *mcPlan) work(next *atomic.Int64, nblocks int, db []float64, blocks []blockStats) (passed, failed int) {
+	nf := len(p.w2)
+	st := newStream()
+	evals := make([]evalFunc, len(p.stages))
+	vals := make([][]float64, len(p.stages))
+	for s, stg := range p.stages {
+		evals[s] = stg.newEval()
+		vals[s] = make([]float64, len(stg.nominal))
+	}
+	pw := make([]float64, nf)
+	row := make([]float64, nf)
+	needDB := p.keepDB || p.moments
+	for {
+		b := int(next.Add(1)) - 1
+		if b >= nblocks {
+			return passed, failed
+		}
+		var bs *blockStats
+		if p.moments {
+			bs = &blocks[b]
+		}
+		for i := b * blockSize; i < min((b+1)*blockSize, p.trials); i++ {
+			ok := p.trial(st, uint64(i), evals, vals, pw)
+			if !ok {
+				failed++
+				if db != nil {
+					for j := range nf {
+						db[i*nf+j] = math.NaN()
+					}
+				}
+				continue
+			}
+			pass := true
+			for _, j := range p.checked {
+				if !(pw[j] >= p.loP[j] && pw[j] <= p.hiP[j]) {
+					pass = false
+					break
+				}
+			}
+			if pass {
+				passed++
+			}
+			if !needDB {
+				continue
+			}
+			for j, x := range pw {
+				row[j] = 10 * math.Log10(x)
+			}
+			if db != nil {
+				copy(db[i*nf:(i+1)*nf], row)
+			}
+			if bs != nil {
+				// Welford's update (Knuth, TAOCP vol. 2, 4.2.2, from memory).
+				bs.n++
+				inv := 1 / float64(bs.n)
+				for j, x := range row {
+					d := x - bs.mean[j]
+					bs.mean[j] += d * inv
+					bs.m2[j] += d * (x - bs.mean[j])
+				}
+			}
+		}
+	}
+}
+
+// trial draws trial i's part values, evaluates every stage and leaves
+// |H(jω)|² of the chain in pw. It reports false when a drawn value is not
+// positive or a stage cannot be evaluated.
+func (p *mcPlan) trial(st stream, i uint64, evals []evalFunc, vals [][]float64, pw []float64) bool {
+	st.reset(p.seed, i)
+	for j := range pw {
+		pw[j] = 1
+	}
+	for s, stg := range p.stages {
+		v := vals[s]
+		for k, x := range stg.nominal {
+			var d float64
+			if p.dist == Normal {
+				d = st.r.NormFloat64() / 3
+			} else {
+				d = 2*st.r.Float64() - 1
+			}
+			v[k] = x * (1 + d*stg.tol[k])
+			if !(v[k] > 0) {
+				return false
+			}
+		}
+		c, err := evals[s](v)
+		if err != nil {
+			return false
+		}
+		for j, w2 := range p.w2 {
+			pw[j] *= c.power(w2)
+		}
+	}
+	return true
+}
+
+// mergeBlocks merges per-block means and sums of squared deviations in
+// block order (Chan, Golub and LeVeque's pairwise update, from memory) and
+// returns the mean and the sample standard deviation per frequency.
+func mergeBlocks(blocks []blockStats, nf int) (mean, std []float64) {
+	mean = make([]float64, nf)
+	m2 := make([]float64, nf)
+	n := 0
+	for _, b := range blocks {
+		if b.n == 0 {
+			continue
+		}
+		na, nb := float64(n), float64(b.n)
+		tot := na + nb
+		for j := range nf {
+			d := b.mean[j] - mean[j]
+			mean[j] += d * nb / tot
+			m2[j] += b.m2[j] + d*d*na*nb/tot
+		}
+		n += b.n
+	}
+	std = make([]float64, nf)
+	for j := range nf {
+		if n > 1 {
+			std[j] = math.Sqrt(m2[j] / float64(n-1))
+		} else {
+			std[j] = math.NaN()
+		}
+		if n == 0 {
+			mean[j] = math.NaN()
+		}
+	}
+	return mean, std
+}
+
+// percentiles returns, for each percentile q (0 to 100), the q-th
+// percentile of each column of db (trials × nf, NaN rows skipped), by
+// linear interpolation between order statistics (Hyndman and Fan's
+// definition 7, the default of R and NumPy, from memory).
+func percentiles(db []float64, trials, nf int, qs []float64) [][]float64 {
+	out := make([][]float64, len(qs))
+	for i := range out {
+		out[i] = make([]float64, nf)
+	}
+	col := make([]float64, 0, trials)
+	for j := range nf {
+		col = col[:0]
+		for i := range trials {
+			if x := db[i*nf+j]; !math.IsNaN(x) {
+				col = append(col, x)
+			}
+		}
+		slices.Sort(col)
+		for k, q := range qs {
+			out[k][j] = quantileSorted(col, q/100)
+		}
+	}
+	return out
+}
+
+func quantileSorted(x []float64, q float64) float64 {
+	if len(x) == 0 {
+		return math.NaN()
+	}
+	h := q * float64(len(x)-1)
+	lo := int(math.Floor(h))
+	if lo >= len(x)-1 {
+		return x[len(x)-1]
+	}
+	return x[lo] + (h-float64(lo))*(x[lo+1]-x[lo])
+}
