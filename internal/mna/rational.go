@@ -6,7 +6,7 @@ import (
 	"math"
 	"math/cmplx"
 
-	"gonum.org/v1/gonum/mat"
+	"github.com/rolloff/rolloff/internal/poly"
 )
 
 // CoefTol is the relative level below which a recovered polynomial
@@ -267,11 +267,10 @@ func (r Rational) ZerosPoles() (zeros, poles []complex128, k float64, err error)
 
 // Roots returns the roots of the real polynomial Σ c[j]·s^j (ascending
 // coefficients; the last must be non-zero). Degrees 1 and 2 use closed forms
-// (the quadratic without cancellation); higher degrees the eigenvalues of
-// the companion matrix (gonum's mat.Eigen), each polished by two Newton
-// steps. Complex roots come in conjugate pairs (for degree 2 the one with
-// positive imaginary part first; higher degrees in the eigen solver's
-// order). Accuracy: near machine precision for well-separated roots.
+// (the quadratic without cancellation); higher degrees internal/poly's
+// Aberth–Ehrlich root finder. Complex roots come in conjugate pairs, the
+// one with positive imaginary part first. Accuracy: near machine precision
+// for well-separated roots.
 func Roots(c []float64) ([]complex128, error) {
 	c = trim(c)
 	n := len(c) - 1
@@ -301,38 +300,9 @@ func Roots(c []float64) ([]complex128, error) {
 		}
 		return []complex128{complex(r1, 0), complex(q/r1, 0)}, nil
 	}
-	comp := mat.NewDense(n, n, nil)
-	for i := 1; i < n; i++ {
-		comp.Set(i, i-1, 1)
-	}
-	for i := range n {
-		comp.Set(i, n-1, -c[i]/c[n])
-	}
-	var eig mat.Eigen
-	if !eig.Factorize(comp, mat.EigenNone) {
-		return nil, fmt.Errorf("mna: companion eigenvalues did not converge: %w", ErrDegree)
-	}
-	roots := eig.Values(nil)
-	for i, z := range roots {
-		for range 2 {
-			p, dp := complex(c[n], 0), complex(0, 0)
-			for j := n - 1; j >= 0; j-- {
-				dp = dp*z + p
-				p = p*z + complex(c[j], 0)
-			}
-			if dp == 0 {
-				break
-			}
-			nz := z - p/dp
-			if cmplx.IsNaN(nz) || cmplx.IsInf(nz) {
-				break
-			}
-			z = nz
-		}
-		if math.Abs(imag(z)) <= 1e-14*cmplx.Abs(z) {
-			z = complex(real(z), 0)
-		}
-		roots[i] = z
+	roots, err := poly.Roots(c)
+	if err != nil {
+		return nil, fmt.Errorf("mna: roots of a degree-%d polynomial: %v: %w", n, err, ErrDegree)
 	}
 	return roots, nil
 }
