@@ -98,15 +98,18 @@ type bandPlan struct {
 // P = a·b, width B = b − a) must cover the mask's passband (bandpass:
 // a ≤ PassHz[0], b ≥ PassHz[1]; bandstop: a ≥ PassHz[0], b ≤ PassHz[1]),
 // and the normalized stopband edge is the smaller of the two mapped stop
-// edges, Ω(f) = |f² − P|/(B·f) for bandpass and B·f/|f² − P| for bandstop.
-// For a given P the best B is the least (bandpass) or greatest (bandstop)
-// one the passband allows, so the choice is one-dimensional in P: plan
-// maximizes the selectivity over P by a dense scan and a golden-section
-// refinement. Keeping the mask's own passband edges (P = PassHz[0]·PassHz[1])
-// is one of the candidates, so the result is never worse than that
-// classical choice; for masks that are not geometrically symmetric it is
-// usually better (the stopband edges or a moved passband edge set the
-// centre).
+// edges, Ω(f) = |f² − P|/(B·f) for bandpass and B·f/|f² − P| for bandstop
+// (the reactance transforms, see transform.go).
+//
+// For bandpass the mask's own passband edges are optimal (shown in the
+// code), so the plan keeps them. For bandstop, moving a passband edge
+// inward can make the stop edges geometrically symmetric about the centre
+// and so raise the selectivity: for a given P the best B is the greatest
+// the passband allows (b = min(PassHz[1], P/PassHz[0])), so the choice is
+// one-dimensional in P ∈ (PassHz[0]², PassHz[1]²); plan maximizes the
+// selectivity over P by a dense log scan and a golden-section refinement.
+// Keeping the mask's passband edges (P = PassHz[0]·PassHz[1]) is one of the
+// candidates, so the result is never worse than that classical choice.
 func (s Spec) plan() bandPlan {
 	pl := bandPlan{band: s.Band}
 	switch s.Band {
@@ -121,36 +124,33 @@ func (s Spec) plan() bandPlan {
 	}
 	p0, p1 := s.PassHz[0], s.PassHz[1]
 	t0, t1 := s.StopHz[0], s.StopHz[1]
-	// edges returns the transform's passband edges for centre² P.
-	var edges func(P float64) (a, b float64)
-	var sel func(P float64) float64
-	var lo, hi float64 // range of P
 	if s.Band == Bandpass {
-		edges = func(P float64) (float64, float64) {
-			b := math.Max(p1, P/p0)
-			return P / b, b
-		}
-		sel = func(P float64) float64 {
-			a, b := edges(P)
-			w := b - a
-			return math.Min((P/t0-t0)/w, (t1-P/t1)/w)
-		}
-		lo, hi = t0*t0, t1*t1
-	} else {
-		edges = func(P float64) (float64, float64) {
-			b := math.Min(p1, P/p0)
-			return P / b, b
-		}
-		sel = func(P float64) float64 {
-			a, b := edges(P)
-			w := b - a
-			return math.Min(w/math.Abs(P/t0-t0), w/math.Abs(t1-P/t1))
-		}
-		// The transform's edges must lie inside the mask's passband edges.
-		// A centre outside the stopband is allowed: Ω is monotonic on each
-		// side of the centre, so the stop edges still bound it.
-		lo, hi = p0*p0, p1*p1
+		// Keeping the mask's passband edges is optimal: with a ≤ p0 and
+		// b ≥ p1, both Ω(t0) = (ab − t0²)/((b−a)·t0) and
+		// Ω(t1) = (t1² − ab)/((b−a)·t1) increase with a and decrease with
+		// b (their partial derivatives have the signs of b² − t0², t0² − a²,
+		// t1² − b², a² − t1²), so a = p0 and b = p1.
+		w := p1 - p0
+		pl.sel = math.Min((p0*p1/t0-t0)/w, (t1-p0*p1/t1)/w)
+		pl.centerHz = math.Sqrt(p0) * math.Sqrt(p1)
+		pl.widthHz = w
+		return pl
 	}
+	// Bandstop: edges(P) gives the transform's passband edges for centre²
+	// P, the widest the mask allows (a ≥ p0, b ≤ p1).
+	edges := func(P float64) (float64, float64) {
+		b := math.Min(p1, P/p0)
+		return P / b, b
+	}
+	sel := func(P float64) float64 {
+		a, b := edges(P)
+		w := b - a
+		return math.Min(w/math.Abs(P/t0-t0), w/math.Abs(t1-P/t1))
+	}
+	// The transform's edges must lie inside the mask's passband edges. A
+	// centre outside the stopband is allowed: Ω is monotonic on each side
+	// of the centre, so the stop edges still bound it.
+	lo, hi := p0*p0, p1*p1
 	// Dense scan in log P over the open interval (lo, hi), then a
 	// golden-section search around the best sample. The classical choice
 	// P = p0·p1 is always evaluated.

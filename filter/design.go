@@ -1,0 +1,179 @@
+package filter
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+
+	"github.com/rolloff/rolloff/internal/ellip"
+)
+
+// maxSlackAttenDB caps the stopband attenuation an elliptic design raises
+// its attenuation to when the order has slack (see Design).
+const maxSlackAttenDB = 150
+
+// ellipticAtten returns the stopband attenuation in dB that an elliptic
+// filter of order n reaches with ripple rp dB and selectivity 1/sel: the
+// degree equation n·K'(k)/K(k) = K'(k1)/K(k1) (DLMF 22.2, as in
+// resolved.estimate) solved for the discrimination k1 = εp/εs, then
+// As = 10·log10(1 + εp²/k1²).
+func ellipticAtten(n int, sel, rp float64) float64 {
+	k, kc := 1/sel, math.Sqrt((sel-1)*(sel+1))/sel
+	k1, _ := ellip.ModulusFromRatio(float64(n) * ellip.PeriodRatio(k, kc))
+	if !(k1 > 0) {
+		return math.Inf(1)
+	}
+	e2 := dbPowM1(rp)
+	return 10 / math.Ln10 * math.Log1p(e2/(k1*k1))
+}
+
+// attenDB returns the attenuation of h at w rad/s, −20·log10|H(jw)|
+// (+Inf at a transmission zero).
+func attenDB(h Transfer, w float64) float64 {
+	return -20 * math.Log10(cmplx.Abs(h.At(complex(0, w))))
+}
+
+// passEdge returns the frequency in rad/s at which the monotonic lowpass h
+// (|H| falling from its DC value 1) is attenuated by rp dB, by bisection in
+// log frequency to full precision. ok is false when no such frequency is
+// found between 1e-12 and 1e12 rad/s.
+func passEdge(h Transfer, rp float64) (w float64, ok bool) {
+	lo, hi := 1.0, 1.0
+	for attenDB(h, lo) > rp {
+		lo /= 8
+		if lo < 1e-12 {
+			return 0, false
+		}
+	}
+	for attenDB(h, hi) < rp {
+		hi *= 8
+		if hi > 1e12 {
+			return 0, false
+		}
+	}
+	for range 200 {
+		mid := math.Sqrt(lo) * math.Sqrt(hi)
+		if mid <= lo || mid >= hi {
+			break
+		}
+		if attenDB(h, mid) < rp {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return math.Sqrt(lo) * math.Sqrt(hi), true
+}
+
+// lowpass returns the normalized lowpass of order n for the family, placed
+// so that the mask's normalized requirement (passband edge 1 rad/s, stopband
+// edge sel rad/s) is met where the order allows, with the slack placed as
+// Design documents.
+func (r resolved) lowpass(sel float64, n int) (Transfer, error) {
+	switch r.kind {
+	case kindButterworth:
+		h, err := r.fam.Prototype(n)
+		if err != nil {
+			return Transfer{}, err
+		}
+		// |H|² = 1/(1 + Ω^2n): attenuation rp at Ω = ε^(1/n), ε² = 10^(rp/10) − 1.
+		eps := math.Sqrt(dbPowM1(r.rp))
+		return h.scale(math.Pow(eps, -1/float64(n)))
+	case kindInverseChebyshev:
+		h, err := r.fam.Prototype(n)
+		if err != nil {
+			return Transfer{}, err
+		}
+		return h.scale(sel)
+	case kindElliptic:
+		fam := r.fam.(Elliptic)
+		if r.freeAtt {
+			as := math.Min(ellipticAtten(n, sel, r.rp), maxSlackAttenDB)
+			fam.AttenDB = math.Max(fam.AttenDB, as)
+		}
+		return fam.Prototype(n)
+	case kindBessel:
+		h, err := r.fam.Prototype(n)
+		if err != nil {
+			return Transfer{}, err
+		}
+		w, ok := passEdge(h, r.rp)
+		if !ok {
+			return Transfer{}, fmt.Errorf("filter: %v order %d has no %g dB point: %w", r.fam, n, r.rp, ErrRange)
+		}
+		return h.scale(1 / w)
+	default: // Chebyshev and families from outside: edge at 1 rad/s as given
+		return r.fam.Prototype(n)
+	}
+}
+
+// design returns the order-n design of the plan.
+func (r resolved) design(s Spec, pl bandPlan, n int) (Transfer, error) {
+	lp, err := r.lowpass(pl.sel, n)
+	if err != nil {
+		return Transfer{}, err
+	}
+	switch pl.band {
+	case Lowpass:
+		return lp.ToLowpass(pl.edgeHz)
+	case Highpass:
+		return lp.ToHighpass(pl.edgeHz)
+	case Bandpass:
+		return lp.ToBandpass(pl.centerHz, pl.widthHz)
+	default:
+		return lp.ToBandstop(pl.centerHz, pl.widthHz)
+	}
+}
+
+// meetGrid is the number of log-spaced points per band segment at which
+// meets evaluates a design (edges included).
+const meetGrid = 97
+
+// meets reports whether h meets the mask s with ripple rp and attenuation
+// as (the spec's values, or the family's stricter ones), to within
+// MaskToleranceDB: the band edges exactly, DC and infinity, and a log grid
+// over each band segment (three decades beyond the outer edges).
+func meets(h Transfer, s Spec, rp, as float64) bool {
+	passMax := rp + MaskToleranceDB
+	stopMin := as - MaskToleranceDB
+	att := func(f float64) float64 { return attenDB(h, 2*math.Pi*f) }
+	inf := math.Inf(1)
+	if len(h.Zeros) == len(h.Poles) {
+		inf = -20 * math.Log10(math.Abs(h.Gain))
+	} else if len(h.Zeros) > len(h.Poles) {
+		inf = math.Inf(-1)
+	}
+	seg := func(lo, hi float64, ok func(float64) bool) bool {
+		r := math.Log(hi / lo)
+		for i := range meetGrid {
+			f := lo * math.Exp(r*float64(i)/(meetGrid-1))
+			if i == meetGrid-1 {
+				f = hi
+			}
+			if !ok(att(f)) {
+				return false
+			}
+		}
+		return true
+	}
+	inPass := func(a float64) bool { return a <= passMax }
+	inStop := func(a float64) bool { return a >= stopMin }
+	const span = 1000
+	p, t := s.PassHz, s.StopHz
+	switch s.Band {
+	case Lowpass:
+		return inPass(att(0)) && seg(p[0]/span, p[0], inPass) &&
+			seg(t[0], t[0]*span, inStop) && inStop(inf)
+	case Highpass:
+		return inStop(att(0)) && seg(t[0]/span, t[0], inStop) &&
+			seg(p[0], p[0]*span, inPass) && inPass(inf)
+	case Bandpass:
+		return inStop(att(0)) && seg(t[0]/span, t[0], inStop) &&
+			seg(p[0], p[1], inPass) &&
+			seg(t[1], t[1]*span, inStop) && inStop(inf)
+	default:
+		return inPass(att(0)) && seg(p[0]/span, p[0], inPass) &&
+			seg(t[0], t[1], inStop) &&
+			seg(p[1], p[1]*span, inPass) && inPass(inf)
+	}
+}

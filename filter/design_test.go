@@ -1,0 +1,269 @@
+package filter
+
+import (
+	"errors"
+	"math"
+	"math/cmplx"
+	"testing"
+
+	"pgregory.net/rapid"
+)
+
+// Tolerances of the design checks.
+const (
+	// edgeTolDB is how exactly Design puts its exact edge (passband edge
+	// at RippleDB, or the inverse Chebyshev stopband edge at AttenDB): the
+	// prototypes are accurate to about 1e-9 relative, 1e-7 dB.
+	edgeTolDB = 1e-7
+	// peakTol is how far above 1 (0 dB) the passband maximum may rise from
+	// rounding.
+	peakTol = 1e-9
+)
+
+// logGrid returns n log-spaced frequencies from lo to hi inclusive.
+func logGrid(lo, hi float64, n int) []float64 {
+	out := make([]float64, n)
+	r := math.Log(hi / lo)
+	for i := range out {
+		out[i] = lo * math.Exp(r*float64(i)/float64(n-1))
+	}
+	out[n-1] = hi
+	return out
+}
+
+// maskSegments returns the passband and stopband segments of s for a dense
+// sweep (outer segments reach four decades beyond the outer edges).
+func maskSegments(s Spec) (pass, stop [][2]float64) {
+	const span = 1e4
+	p, t := s.PassHz, s.StopHz
+	switch s.Band {
+	case Lowpass:
+		return [][2]float64{{p[0] / span, p[0]}}, [][2]float64{{t[0], t[0] * span}}
+	case Highpass:
+		return [][2]float64{{p[0], p[0] * span}}, [][2]float64{{t[0] / span, t[0]}}
+	case Bandpass:
+		return [][2]float64{{p[0], p[1]}}, [][2]float64{{t[0] / span, t[0]}, {t[1], t[1] * span}}
+	default:
+		return [][2]float64{{p[0] / span, p[0]}, {p[1], p[1] * span}}, [][2]float64{{t[0], t[1]}}
+	}
+}
+
+// sweepMask evaluates h densely over the mask: the worst passband
+// attenuation, the least stopband attenuation and the largest gain seen.
+func sweepMask(h Transfer, s Spec, n int) (worstPass, leastStop, peak float64) {
+	pass, stop := maskSegments(s)
+	leastStop = math.Inf(1)
+	worstPass = math.Inf(-1)
+	for _, seg := range pass {
+		for _, f := range logGrid(seg[0], seg[1], n) {
+			m := cmplx.Abs(h.AtHz(f))
+			worstPass = math.Max(worstPass, -20*math.Log10(m))
+			peak = math.Max(peak, m)
+		}
+	}
+	for _, seg := range stop {
+		for _, f := range logGrid(seg[0], seg[1], n) {
+			m := cmplx.Abs(h.AtHz(f))
+			leastStop = math.Min(leastStop, -20*math.Log10(m))
+			peak = math.Max(peak, m)
+		}
+	}
+	return worstPass, leastStop, peak
+}
+
+// genSpec draws a valid mask of modest order for every family.
+func genSpec(t *rapid.T) Spec {
+	band := Band(rapid.IntRange(1, 4).Draw(t, "band"))
+	logU := func(lo, hi float64, name string) float64 {
+		return math.Exp(rapid.Float64Range(math.Log(lo), math.Log(hi)).Draw(t, name))
+	}
+	rp := logU(0.01, 3, "ripple")
+	as := rp + rapid.Float64Range(15, 90).Draw(t, "attenAbove")
+	f := logU(10, 1e5, "freq")
+	s := Spec{Band: band, RippleDB: rp, AttenDB: as}
+	switch band {
+	case Lowpass:
+		s.PassHz[0], s.StopHz[0] = f, f*logU(1.15, 10, "ratio")
+	case Highpass:
+		s.PassHz[0], s.StopHz[0] = f, f/logU(1.15, 10, "ratio")
+	case Bandpass:
+		s.PassHz = [2]float64{f, f * logU(1.1, 5, "width")}
+		s.StopHz = [2]float64{f / logU(1.15, 5, "lowRatio"), s.PassHz[1] * logU(1.15, 5, "highRatio")}
+	case Bandstop:
+		t0 := f * logU(1.15, 5, "lowRatio")
+		t1 := t0 * logU(1.02, 5, "stopWidth")
+		s.PassHz = [2]float64{f, t1 * logU(1.15, 5, "highRatio")}
+		s.StopHz = [2]float64{t0, t1}
+	}
+	return s
+}
+
+// genFamily draws a family, sometimes with its own stricter parameters.
+func genFamily(t *rapid.T, s Spec) Family {
+	strict := rapid.Bool().Draw(t, "strict")
+	rp, as := 0.0, 0.0
+	if strict {
+		rp = s.RippleDB * rapid.Float64Range(0.2, 1).Draw(t, "rpFactor")
+		as = s.AttenDB + rapid.Float64Range(0, 20).Draw(t, "asExtra")
+	}
+	switch rapid.IntRange(0, 4).Draw(t, "family") {
+	case 0:
+		return Butterworth{}
+	case 1:
+		return Chebyshev{RippleDB: rp}
+	case 2:
+		return InverseChebyshev{AttenDB: as}
+	case 3:
+		return Elliptic{RippleDB: rp, AttenDB: as}
+	default:
+		return Bessel{Norm: BesselNorm(rapid.IntRange(0, 2).Draw(t, "norm"))}
+	}
+}
+
+// TestDesignMeetsMaskEverywhere: for random masks and families, Design
+// meets the mask over a dense log sweep of the passband and stopband, its
+// passband maximum is 0 dB, its poles are in the left half-plane, and one
+// order less does not meet the mask (the order is the least).
+func TestDesignMeetsMaskEverywhere(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		s := genSpec(t)
+		f := genFamily(t, s)
+		h, err := Design(f, s)
+		if errors.Is(err, ErrRange) {
+			t.Skipf("beyond the supported range: %v", err)
+		}
+		if err != nil {
+			t.Fatalf("Design(%v, %+v): %v", f, s, err)
+		}
+		r, _ := resolve(f, s)
+		worstPass, leastStop, peak := sweepMask(h, s, 2001)
+		if worstPass > r.rp+MaskToleranceDB {
+			t.Fatalf("%v %+v: passband attenuation %.9g dB above %g", f, s, worstPass, r.rp)
+		}
+		if leastStop < r.as-MaskToleranceDB {
+			t.Fatalf("%v %+v: stopband attenuation %.9g dB below %g", f, s, leastStop, r.as)
+		}
+		if peak > 1+peakTol {
+			t.Fatalf("%v %+v: passband peak %.12g above 0 dB", f, s, peak)
+		}
+		for _, p := range h.Poles {
+			if !(real(p) < 0) {
+				t.Fatalf("%v %+v: pole %v not in the left half-plane", f, s, p)
+			}
+		}
+		n, err := MinOrder(f, s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		wantPoles := n
+		if s.Band == Bandpass || s.Band == Bandstop {
+			wantPoles = 2 * n
+		}
+		if len(h.Poles) != wantPoles {
+			t.Fatalf("%d poles for order %d", len(h.Poles), n)
+		}
+		if n > 1 {
+			short, err := r.design(s, s.plan(), n-1)
+			if err == nil {
+				wp, ls, _ := sweepMask(short, s, 2001)
+				if wp <= r.rp+MaskToleranceDB && ls >= r.as-MaskToleranceDB {
+					t.Fatalf("%v %+v: order %d also meets the mask (%g, %g dB)", f, s, n-1, wp, ls)
+				}
+			}
+		}
+	})
+}
+
+// TestDesignSlackPlacement checks where Design puts the exact edge (see the
+// Design doc): the passband edge for Butterworth, Chebyshev, elliptic and
+// Bessel, the stopband edge for inverse Chebyshev.
+func TestDesignSlackPlacement(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		s := genSpec(t)
+		if s.Band != Lowpass && s.Band != Highpass {
+			return
+		}
+		f := genFamily(t, s)
+		h, err := Design(f, s)
+		if errors.Is(err, ErrRange) {
+			t.Skip(err)
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, _ := resolve(f, s)
+		switch r.kind {
+		case kindInverseChebyshev:
+			got := -20 * math.Log10(cmplx.Abs(h.AtHz(s.StopHz[0])))
+			if math.Abs(got-r.as) > edgeTolDB {
+				t.Fatalf("%v: attenuation %.12g dB at the stop edge, want %g", f, got, r.as)
+			}
+		default:
+			got := -20 * math.Log10(cmplx.Abs(h.AtHz(s.PassHz[0])))
+			if math.Abs(got-r.rp) > edgeTolDB {
+				t.Fatalf("%v: attenuation %.12g dB at the pass edge, want %g", f, got, r.rp)
+			}
+		}
+	})
+}
+
+// TestBesselDesignMonotonic: a Bessel design's magnitude falls
+// monotonically above DC (lowpass) and is attenuated by exactly RippleDB
+// at the passband edge.
+func TestBesselDesignMonotonic(t *testing.T) {
+	for _, as := range []float64{10, 20, 30, 45} {
+		s := Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{10000}, RippleDB: 1, AttenDB: as}
+		h, err := Design(Bessel{}, s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		prev := math.Inf(1)
+		for _, f := range logGrid(1, 1e6, 3000) {
+			m := cmplx.Abs(h.AtHz(f))
+			if m > prev*(1+1e-13) {
+				t.Fatalf("atten %g: |H| rises at %g Hz", as, f)
+			}
+			prev = m
+		}
+		if got := -20 * math.Log10(cmplx.Abs(h.AtHz(1000))); math.Abs(got-1) > edgeTolDB {
+			t.Fatalf("atten %g: %g dB at the passband edge", as, got)
+		}
+	}
+}
+
+// TestDesignErrors: bad specs and family parameters give matchable errors.
+func TestDesignErrors(t *testing.T) {
+	good := Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{3000}, RippleDB: 1, AttenDB: 40}
+	cases := []struct {
+		reason string
+		f      Family
+		s      Spec
+		want   error
+	}{
+		{"stop edge inside the passband", Butterworth{}, Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{900}, RippleDB: 1, AttenDB: 40}, ErrSpec},
+		{"unknown band", Butterworth{}, Spec{PassHz: [2]float64{1000}, StopHz: [2]float64{2000}, RippleDB: 1, AttenDB: 40}, ErrSpec},
+		{"NaN ripple", Butterworth{}, Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{2000}, RippleDB: math.NaN(), AttenDB: 40}, ErrSpec},
+		{"looser family ripple", Chebyshev{RippleDB: 2}, good, ErrParam},
+		{"looser family attenuation", InverseChebyshev{AttenDB: 20}, good, ErrParam},
+		{"negative family ripple", Elliptic{RippleDB: -1}, good, ErrParam},
+		{"unknown Bessel norm", Bessel{Norm: 7}, good, ErrParam},
+		{"nil family", nil, good, ErrParam},
+		{"nil pointer family", (*Chebyshev)(nil), good, ErrParam},
+		{"order beyond the range", Butterworth{}, Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{1001}, RippleDB: 1, AttenDB: 100}, ErrRange},
+		{"Bessel cannot reach it", Bessel{}, Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{1100}, RippleDB: 1, AttenDB: 100}, ErrRange},
+	}
+	for _, c := range cases {
+		if _, err := Design(c.f, c.s); !errors.Is(err, c.want) {
+			t.Errorf("%s: error %v, want %v", c.reason, err, c.want)
+		}
+		if _, err := MinOrder(c.f, c.s); !errors.Is(err, c.want) {
+			t.Errorf("%s: MinOrder error %v, want %v", c.reason, err, c.want)
+		}
+	}
+	// A pointer to a family works like the value.
+	n1, err1 := MinOrder(&Chebyshev{RippleDB: 0.5}, good)
+	n2, err2 := MinOrder(Chebyshev{RippleDB: 0.5}, good)
+	if err1 != nil || err2 != nil || n1 != n2 {
+		t.Errorf("pointer family: %d %v, value %d %v", n1, err1, n2, err2)
+	}
+}
