@@ -90,9 +90,15 @@ type MaskResult struct {
 //
 // Each region is scanned on a 400-a-decade log grid and every local extremum
 // of the grid is refined by golden-section search (see GainExtremes), so a
-// violation narrower than the grid spacing is found. The margin of a
-// passband is min(gmin + RippleDB, −gmax) + MaskTolDB, of a stopband
-// −AttenDB − gmax + MaskTolDB, with gmin, gmax the refined extremes.
+// violation narrower than the grid spacing is found; for a filter.Transfer
+// the frequencies of its poles and zeros are added to the grid, so even a
+// resonance far narrower than the spacing is found. With gmin, gmax the
+// refined extremes of a region, the margin of a stopband is
+// −AttenDB − gmax + MaskTolDB and that of a passband
+// gmin + RippleDB + MaskTolDB, or MaskTolDB − gmax when that is lower and
+// negative: the 0 dB ceiling counts only when it is exceeded, because a
+// normalized response touches it by construction and it would otherwise
+// always be the least margin, hiding the slack a designer wants to see.
 //
 // Errors wrap filter.ErrSpec for a spec that fails validation (the rules of
 // filter.Spec.Validate), ErrGrid for a region beyond the float64 range, and
@@ -140,9 +146,9 @@ func CheckMask(sys System, spec filter.Spec) (MaskResult, error) {
 			if err != nil {
 				return MaskResult{}, err
 			}
-			rm.MarginDB, rm.WorstHz = -maxDB+MaskTolDB, maxHz
-			if m := minDB + spec.RippleDB + MaskTolDB; m < rm.MarginDB {
-				rm.MarginDB, rm.WorstHz = m, minHz
+			rm.MarginDB, rm.WorstHz = minDB+spec.RippleDB+MaskTolDB, minHz
+			if m := -maxDB + MaskTolDB; m < 0 && m < rm.MarginDB {
+				rm.MarginDB, rm.WorstHz = m, maxHz
 			}
 		}
 		res.Regions = append(res.Regions, rm)

@@ -23,7 +23,9 @@ func (e Extremes) RippleDB() float64 { return e.MaxDB - e.MinDB }
 // GainExtremes returns the largest and smallest gain of s over
 // [loHz, hiHz], refined between the points of a 400-a-decade log grid by
 // golden-section search in log f around every local extremum of the grid
-// (so a narrow peak or dip between grid points is found); the values are
+// (so a narrow peak or dip between grid points is found; for a
+// filter.Transfer the frequencies of its poles and zeros join the grid, so
+// that even a resonance far narrower than the grid spacing is); the values are
 // exact to rounding at the refined frequencies, which are accurate to about
 // 1e-7 relative (an extremum is flat).
 //

@@ -3,6 +3,11 @@ package response
 import (
 	"fmt"
 	"math"
+	"math/cmplx"
+	"slices"
+	"sort"
+
+	"github.com/rolloff/rolloff/filter"
 
 	"gonum.org/v1/gonum/floats"
 )
@@ -20,6 +25,7 @@ const (
 	gridMax       = 20000
 	crossRelTol   = 1e-12
 	goldenIters   = 60 // 0.618⁶⁰ ≈ 3e-13 of the bracket
+	goldenSeeds   = 9
 	maxRefine     = 2000
 )
 
@@ -53,12 +59,42 @@ func gainAtLog(s System, x float64) (float64, error) {
 }
 
 // newScan samples s on a log grid over [lo, hi] made with floats.LogSpan.
+// For a filter.Transfer the grid also gets the frequencies where narrow
+// features can sit: |Im r|/2π and |r|/2π of every pole and zero r inside
+// the band, so a resonance or notch far narrower than the grid spacing is
+// still bracketed.
 func newScan(s System, lo, hi float64) (scan, error) {
 	n := int(math.Ceil(math.Log10(hi/lo)*gridPerDecade)) + 1
 	n = min(max(n, gridMin), gridMax)
 	f := floats.LogSpan(make([]float64, n), lo, hi)
 	f[0], f[n-1] = lo, hi
-	sc := scan{s: s, x: f, g: make([]float64, n)}
+	var h *filter.Transfer
+	switch v := s.(type) {
+	case filter.Transfer:
+		h = &v
+	case *filter.Transfer:
+		h = v
+	}
+	if h != nil {
+		add := func(r complex128) {
+			for _, w := range [2]float64{math.Abs(imag(r)), cmplx.Abs(r)} {
+				if fr := w / (2 * math.Pi); fr > lo && fr < hi {
+					f = append(f, fr)
+				}
+			}
+		}
+		for _, r := range h.Poles {
+			add(r)
+		}
+		for _, r := range h.Zeros {
+			add(r)
+		}
+		if len(f) > n {
+			sort.Float64s(f)
+			f = slices.Compact(f)
+		}
+	}
+	sc := scan{s: s, x: f, g: make([]float64, len(f))}
 	for i, fi := range f {
 		sc.x[i] = math.Log(fi)
 		g, err := gainAtLog(s, sc.x[i])
@@ -97,10 +133,25 @@ func bisectLevel(s System, level, xa, ga, xb float64) (float64, error) {
 	return math.Exp((xa + xb) / 2), nil
 }
 
-// golden maximizes sign·g over [xa, xb] by golden-section search and
-// returns the best abscissa and its gain (not multiplied by sign).
+// golden maximizes sign·g over [xa, xb] and returns the best abscissa and
+// its gain (not multiplied by sign). The bracket is first sampled at
+// goldenSeeds interior points, so that a peak standing on a sloping
+// background (not unimodal over the whole bracket) is still found, and the
+// search then runs by golden sections between the best seed's neighbours.
 func golden(s System, sign, xa, xb float64) (float64, float64, error) {
 	const r = 0.6180339887498949 // (√5 − 1)/2
+	bi, bg := 0, math.Inf(-1)
+	step := (xb - xa) / (goldenSeeds + 1)
+	for i := 1; i <= goldenSeeds; i++ {
+		g, err := gainAtLog(s, xa+float64(i)*step)
+		if err != nil {
+			return 0, 0, err
+		}
+		if sign*g > bg {
+			bi, bg = i, sign*g
+		}
+	}
+	xa, xb = xa+float64(bi-1)*step, xa+float64(bi+1)*step
 	c, d := xb-r*(xb-xa), xa+r*(xb-xa)
 	gc, err := gainAtLog(s, c)
 	if err != nil {

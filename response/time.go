@@ -31,9 +31,13 @@ func Step(h filter.Transfer, t []float64) ([]float64, error) {
 // response by O(spread²), where the separate formula would lose accuracy to
 // cancellation in O(1/spread) residues). A biproper h (as many zeros as poles)
 // has a step y(0) = Gain. Unstable poles are allowed: the response grows as
-// it should and may overflow to ±Inf at late times. Results agree with
-// SciPy's state-space simulation to 1e-12 relative to the peak (tested;
-// observed 1e-14).
+// it should and may overflow to ±Inf at late times.
+//
+// Accuracy: to rounding (about 1e-14 of the response's peak; SciPy's
+// state-space simulation agrees to 1e-14) when the poles are well apart or
+// exactly repeated; about 1e-10 of the peak in the worst case, poles that
+// nearly coincide (spread near the 1e-5 merging threshold), where both the
+// merged and the separate formula lose digits.
 //
 // Errors wrap ErrSystem for more zeros than poles, a non-finite gain, pole or
 // zero, or a complex pole or zero without its conjugate, and ErrGrid for a
