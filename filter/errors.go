@@ -23,4 +23,8 @@ var (
 	// ErrStage reports a stage that is not well formed (see Stage.Validate),
 	// or a transfer function that cannot be factored into stages.
 	ErrStage = errors.New("filter: bad stage")
+	// ErrFormat reports JSON that does not decode into this package's
+	// types: a syntax error, a wrong type, an unknown or missing field, a
+	// pair that is not [re, im], an unknown band or stage kind name.
+	ErrFormat = errors.New("filter: malformed encoding")
 )
