@@ -98,7 +98,7 @@ func bsincos(x *big.Float) (s, c *big.Float) {
 		r.SetMantExp(r, -1)
 		h++
 	}
-	r2 := new(big.Float).SetPrec(accPrec + 64).Mul(r, r)
+	r2 := new(big.Float).SetPrec(accPrec+64).Mul(r, r)
 	s = new(big.Float).SetPrec(accPrec + 64).Set(r)
 	c = new(big.Float).SetPrec(accPrec + 64).SetFloat64(1)
 	ts := new(big.Float).SetPrec(accPrec + 64).Set(r)
@@ -143,7 +143,7 @@ func bcquo(a, b bc) bc {
 	d := badd(bmul(b.re, b.re), bmul(b.im, b.im))
 	return bc{bquo(badd(bmul(a.re, b.re), bmul(a.im, b.im)), d), bquo(bsub(bmul(a.im, b.re), bmul(a.re, b.im)), d)}
 }
-func bcadd(a, b bc) bc { return bc{badd(a.re, b.re), badd(a.im, b.im)} }
+func bcadd(a, b bc) bc      { return bc{badd(a.re, b.re), badd(a.im, b.im)} }
 func bc128(a bc) complex128 { return complex(bf64(a.re), bf64(a.im)) }
 
 // accRef is a reference prototype rounded from big precision.
