@@ -110,10 +110,13 @@ func isValue(s Series, v float64) bool {
 }
 
 // Tolerances gives the tolerance of parts as fractions (0.01 for ±1 %).
-// A zero field means "the customary tolerance of the part's series"; Part
-// overrides both for single parts, keyed by chain designator ("U2.C1").
+// A zero Resistor or Capacitor means "the customary tolerance of the part's
+// series" unless Override is set, which takes them as given (0: exact
+// parts); Part overrides both for single parts, keyed by chain designator
+// ("U2.C1").
 type Tolerances struct {
 	Resistor, Capacitor float64
+	Override            bool
 	Part                map[string]float64
 }
 
@@ -122,9 +125,9 @@ func (t Tolerances) of(it Item) float64 {
 		return x
 	}
 	switch {
-	case it.Kind == Resistor && t.Resistor > 0:
+	case it.Kind == Resistor && (t.Resistor > 0 || t.Override):
 		return t.Resistor
-	case it.Kind == Capacitor && t.Capacitor > 0:
+	case it.Kind == Capacitor && (t.Capacitor > 0 || t.Override):
 		return t.Capacitor
 	}
 	if it.Series.valid() {
