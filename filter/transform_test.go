@@ -239,7 +239,9 @@ func TestTransformErrors(t *testing.T) {
 		{"lowpass gain ω^64 underflows", func() (Transfer, error) { return h64.ToLowpass(1e-9) }},
 		{"bandpass gain B^64 overflows", func() (Transfer, error) { return h64.ToBandpass(1e9, 1e8) }},
 		{"bandpass gain B^64 underflows", func() (Transfer, error) { return h64.ToBandpass(1, 1e-9) }},
-		{"non-finite prototype", func() (Transfer, error) { return Transfer{Poles: []complex128{complex(math.NaN(), 0)}, Gain: 1}.ToLowpass(1) }},
+		{"non-finite prototype", func() (Transfer, error) {
+			return Transfer{Poles: []complex128{complex(math.NaN(), 0)}, Gain: 1}.ToLowpass(1)
+		}},
 	} {
 		g, err := c.fn()
 		if !errors.Is(err, ErrRange) {
