@@ -44,8 +44,8 @@ func checkBand(loName string, lo float64, hiName string, hi float64) error {
 
 // scan is a band sampled on a log grid: x = ln f, g = gain in dB.
 type scan struct {
-	s    System
-	x, g []float64
+	s       System
+	f, x, g []float64 // frequency, its logarithm, gain in dB
 }
 
 // gainAtLog is the gain in dB at f = e^x, with NaN reported as an error.
@@ -94,7 +94,7 @@ func newScan(s System, lo, hi float64) (scan, error) {
 			f = slices.Compact(f)
 		}
 	}
-	sc := scan{s: s, x: f, g: make([]float64, len(f))}
+	sc := scan{s: s, f: f, x: make([]float64, len(f)), g: make([]float64, len(f))}
 	for i, fi := range f {
 		sc.x[i] = math.Log(fi)
 		g, err := gainAtLog(s, sc.x[i])
@@ -217,7 +217,7 @@ func (sc scan) extreme(sign float64) (hz, db float64, err error) {
 			best = i
 		}
 	}
-	bx, bg := sc.x[best], sc.g[best]
+	bx, bg, grid := sc.x[best], sc.g[best], true
 	refined := 0
 	try := func(i int) error {
 		a, b := sc.x[max(i-1, 0)], sc.x[min(i+1, n-1)]
@@ -226,7 +226,7 @@ func (sc scan) extreme(sign float64) (hz, db float64, err error) {
 			return err
 		}
 		if sign*g > sign*bg {
-			bx, bg = x, g
+			bx, bg, grid = x, g, false
 		}
 		refined++
 		return nil
@@ -240,6 +240,9 @@ func (sc scan) extreme(sign float64) (hz, db float64, err error) {
 				return 0, 0, err
 			}
 		}
+	}
+	if grid {
+		return sc.f[best], bg, nil
 	}
 	return math.Exp(bx), bg, nil
 }
@@ -258,7 +261,7 @@ func (sc scan) crossing(level float64, down bool) (hz float64, ok bool, err erro
 		}
 		si := sc.g[i] - level
 		if si == 0 {
-			return math.Exp(sc.x[i]), true, nil
+			return sc.f[i], true, nil
 		}
 		if j < 0 || j >= n {
 			break
