@@ -44,10 +44,12 @@ func (r Region) String() string {
 
 // MaskTolDB is the slack, in dB, that CheckMask allows on every limit of a
 // mask: a response computed to rounding that touches a limit exactly (a
-// Chebyshev passband at its ripple edge, a maximum at 0 dB) passes.
-// 1e-6 dB is an amplitude error of 1.2e-7, far below anything a circuit
-// can resolve and far above the rounding of a computed response.
-const MaskTolDB = 1e-6
+// Chebyshev passband at its ripple edge, a maximum at 0 dB) passes. It is
+// filter.MaskToleranceDB, the allowance filter.Design works to, so every
+// Design result passes: 1e-6 dB is an amplitude error of 1.2e-7, far below
+// anything a circuit can resolve and far above the rounding of a computed
+// response.
+const MaskTolDB = filter.MaskToleranceDB
 
 // MaskSpan is how far beyond its edge CheckMask searches a band that is
 // open on one side (a lowpass passband towards DC, its stopband towards
@@ -100,12 +102,12 @@ type MaskResult struct {
 // normalized response touches it by construction and it would otherwise
 // always be the least margin, hiding the slack a designer wants to see.
 //
-// Errors wrap filter.ErrSpec for a spec that fails validation (the rules of
-// filter.Spec.Validate), ErrGrid for a region beyond the float64 range, and
+// Errors wrap filter.ErrSpec for a spec that fails filter.Spec.Validate,
+// ErrGrid for a region beyond the float64 range, and
 // ErrSystem when the gain of sys is NaN in a region.
 func CheckMask(sys System, spec filter.Spec) (MaskResult, error) {
-	if err := validateSpec(spec); err != nil {
-		return MaskResult{}, err
+	if err := spec.Validate(); err != nil {
+		return MaskResult{}, fmt.Errorf("response: mask: %w", err)
 	}
 	p, t := spec.PassHz, spec.StopHz
 	type reg struct {
@@ -174,52 +176,4 @@ func above(edge float64) float64 {
 		return hi
 	}
 	return math.MaxFloat64
-}
-
-// validateSpec applies the rules of filter.Spec.Validate (see CheckMask).
-func validateSpec(s filter.Spec) error {
-	bad := func(format string, a ...any) error {
-		return fmt.Errorf("response: mask spec "+format+": %w", append(a, filter.ErrSpec)...)
-	}
-	n := 2
-	switch s.Band {
-	case filter.Lowpass, filter.Highpass:
-		n = 1
-	case filter.Bandpass, filter.Bandstop:
-	default:
-		return bad("Band %d unknown", int(s.Band))
-	}
-	for i := range n {
-		if v := s.PassHz[i]; !(v > 0) || math.IsInf(v, 1) {
-			return bad("PassHz[%d] %g Hz not positive and finite", i, v)
-		}
-		if v := s.StopHz[i]; !(v > 0) || math.IsInf(v, 1) {
-			return bad("StopHz[%d] %g Hz not positive and finite", i, v)
-		}
-	}
-	if r := s.RippleDB; !(r > 0) || math.IsInf(r, 1) {
-		return bad("RippleDB %g not positive and finite", r)
-	}
-	if a := s.AttenDB; !(a > 0) || math.IsInf(a, 1) {
-		return bad("AttenDB %g not positive and finite", a)
-	}
-	if !(s.RippleDB < s.AttenDB) {
-		return bad("RippleDB %g not below AttenDB %g", s.RippleDB, s.AttenDB)
-	}
-	p, t := s.PassHz, s.StopHz
-	ok := true
-	switch s.Band {
-	case filter.Lowpass:
-		ok = p[0] < t[0]
-	case filter.Highpass:
-		ok = t[0] < p[0]
-	case filter.Bandpass:
-		ok = t[0] < p[0] && p[0] < p[1] && p[1] < t[1]
-	case filter.Bandstop:
-		ok = p[0] < t[0] && t[0] < t[1] && t[1] < p[1]
-	}
-	if !ok {
-		return bad("edges PassHz %v, StopHz %v out of order for a %v", p[:n], t[:n], s.Band)
-	}
-	return nil
 }

@@ -175,3 +175,5 @@ func TestPropCheckMaskButterworth(t *testing.T) {
 		}
 	})
 }
+
+var maskSpecForBench = filter.Spec{Band: filter.Lowpass, PassHz: [2]float64{800}, StopHz: [2]float64{3000}, RippleDB: 1, AttenDB: 60}
