@@ -1,0 +1,103 @@
+package topology
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+
+	"github.com/rolloff/rolloff/filter"
+	"github.com/rolloff/rolloff/internal/mna"
+)
+
+// SPICEOpAmpGain is the voltage gain of the voltage-controlled voltage
+// source that stands for each ideal op-amp in the decks WriteSPICE writes.
+// With 1e7 the deck's response differs from the ideal (nullor) analysis of
+// AtHz by about (1 + noise gain)/1e7 relative: below 1e-5 dB for these
+// circuits.
+const SPICEOpAmpGain = 1e7
+
+// WriteSPICE writes the chain as a SPICE deck that ngspice runs as it is: a
+// title line, the source "VIN in 0 AC 1", each circuit under a comment line
+// naming its kind, stage kind, f0, Q (and zero and gain), each op-amp as a
+// voltage-controlled voltage source of gain SPICEOpAmpGain from its inputs
+// to its output, the chain's output at node "out", no analysis commands,
+// and ".end". Node names read as s<stage>_<node> (s1_a, s2_n1, ...); the
+// output of stage k is s<k>_out and the input of stage k+1; part names are
+// the circuit's references with the stage appended (R1_s1, C2_s3, E1_s2 for
+// U1 of stage 2). Values are written with 12 significant digits.
+//
+// Errors wrap ErrStage for an empty chain, the template errors of a circuit
+// that fits no template, and any error of w.
+func (c Chain) WriteSPICE(w io.Writer) error {
+	if len(c.Circuits) == 0 {
+		return fmt.Errorf("topology: WriteSPICE: empty chain: %w", ErrStage)
+	}
+	ds := make([]*design, len(c.Circuits))
+	for i, ci := range c.Circuits {
+		d, err := ci.design()
+		if err != nil {
+			return fmt.Errorf("topology: WriteSPICE: stage %d: %w", i+1, err)
+		}
+		if _, err := valuesOf(d, ci.Parts, new([maxParts]float64)); err != nil {
+			return fmt.Errorf("topology: WriteSPICE: stage %d: %w", i+1, err)
+		}
+		ds[i] = d
+	}
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "rolloff filter chain, %d stage(s)\n", len(c.Circuits))
+	fmt.Fprintf(bw, "* ideal op-amps are VCVS of gain %.0e; the input is node in, the output node out\n", SPICEOpAmpGain)
+	fmt.Fprintf(bw, "VIN in 0 AC 1\n")
+	last := len(c.Circuits) - 1
+	for i, ci := range c.Circuits {
+		d := ds[i]
+		k := i + 1
+		node := func(n int) string {
+			if n == 0 {
+				return "0"
+			}
+			name := d.nodes[n-1]
+			switch {
+			case name == "in" && i == 0:
+				return "in"
+			case name == "in":
+				return fmt.Sprintf("s%d_out", i)
+			case name == "out" && i == last:
+				return "out"
+			}
+			return fmt.Sprintf("s%d_%s", k, name)
+		}
+		fmt.Fprintf(bw, "* stage %d: %s\n", k, describe(ci, d))
+		amp := 0
+		for _, e := range d.net.Elements {
+			switch e.Kind {
+			case mna.Resistor, mna.Capacitor:
+				fmt.Fprintf(bw, "%s_s%d %s %s %.12g\n", d.refs[e.Value], k, node(e.A), node(e.B), ci.Parts[e.Value].Value)
+			case mna.OpAmp:
+				amp++
+				fmt.Fprintf(bw, "E%d_s%d %s 0 %s %s %.0e\n", amp, k, node(e.Out), node(e.A), node(e.B), SPICEOpAmpGain)
+			}
+		}
+	}
+	fmt.Fprintf(bw, ".end\n")
+	return bw.Flush()
+}
+
+// describe is the comment line of one stage.
+func describe(c Circuit, d *design) string {
+	st := c.Stage
+	s := fmt.Sprintf("%v %v, order %d, f0 = %.6g Hz", c.Kind, st.Kind, st.Order, st.F0Hz)
+	if st.Order == 2 {
+		s += fmt.Sprintf(", Q = %.6g", st.Q)
+	}
+	if st.Kind == filter.NotchStage {
+		s += fmt.Sprintf(", zero = %.6g Hz", st.ZeroHz)
+	}
+	s += fmt.Sprintf(", gain = %.6g", st.Gain)
+	if d.inverting {
+		s += ", inverting"
+	}
+	if d.note != "" {
+		s += " (" + d.note + ")"
+	}
+	return s
+}
