@@ -1,0 +1,107 @@
+package topology
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/rolloff/rolloff/filter"
+)
+
+// TestFollowerGBW: an RC lowpass with a unity-gain follower whose op-amp is
+// an integrator A = ωt/s has H = 1/(1 + sRC)·ωt/(s + ωt) (closed-loop
+// follower pole at GBW, by hand); the RC pole does not move, so f0 is
+// unchanged for any GBW, and DominantWith must find exactly the RC pole.
+func TestFollowerGBW(t *testing.T) {
+	c, err := RealizeStage(filter.Stage{Kind: filter.LowpassStage, Order: 1, F0Hz: 1e3, Gain: 1}, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	op := OpAmp{GBWHz: 20e3}
+	f0, _, err := c.DominantWith(op)
+	if err != nil || math.Abs(f0/1e3-1) > 1e-9 {
+		t.Fatalf("f0 %g err %v", f0, err)
+	}
+	for _, f := range []float64{100, 1e3, 2e4, 1e5} {
+		s := complex(0, 2*math.Pi*f)
+		wt := complex(2*math.Pi*op.GBWHz, 0)
+		want := 1 / (1 + s/complex(2*math.Pi*1e3, 0)) * wt / (s + wt)
+		if e := relDiff(c.AtHzWith(op, f), want); e > 1e-12 {
+			t.Errorf("%g Hz: %v, want %v", f, c.AtHzWith(op, f), want)
+		}
+	}
+}
+
+// TestRequiredGBW: the search meets its own criterion at the result and
+// fails just below it; and for the unity-gain Sallen-Key the needed GBW is
+// of the order of the rule of thumb (within a factor 30 either way; the
+// rule is common practice, not a bound).
+func TestRequiredGBW(t *testing.T) {
+	for _, k := range []Kind{SallenKey, MultipleFeedback, StateVariable, TowThomas} {
+		st := filter.Stage{Kind: filter.LowpassStage, Order: 2, F0Hz: 10e3, Q: 2, Gain: 1}
+		c, err := RealizeStage(st, Options{Kind: k})
+		if err != nil {
+			t.Fatal(err)
+		}
+		gbw, err := c.RequiredGBWHz(0)
+		if err != nil {
+			t.Fatalf("%v: %v", k, err)
+		}
+		ach, _ := c.Achieved()
+		at, _ := c.deviation(OpAmp{GBWHz: gbw}, ach.F0Hz, ach.Q)
+		below, _ := c.deviation(OpAmp{GBWHz: gbw * 0.999}, ach.F0Hz, ach.Q)
+		if at > DefaultMaxErr || below <= DefaultMaxErr {
+			t.Errorf("%v: GBW %g: error %g at, %g just below", k, gbw, at, below)
+		}
+		rule := c.RuleOfThumbGBWHz()
+		if gbw < rule/30 || gbw > rule*30 {
+			t.Errorf("%v: GBW %g Hz far from the rule of thumb %g Hz", k, gbw, rule)
+		}
+		t.Logf("%v Q=2 f0=10 kHz: required GBW %.4g Hz, rule of thumb %.4g Hz", k, gbw, rule)
+	}
+	c, _ := RealizeStage(filter.Stage{Kind: filter.LowpassStage, Order: 2, F0Hz: 10e3, Q: 2, Gain: 1}, Options{})
+	if _, err := c.RequiredGBWHz(-1); !errors.Is(err, ErrOpAmp) {
+		t.Errorf("negative maxErr: %v", err)
+	}
+	// A DC gain of 10 cannot keep the error within 0.1 %.
+	if _, err := c.RequiredGBWHzWith(OpAmp{DCGain: 10}, 1e-3); !errors.Is(err, ErrOpAmp) {
+		t.Errorf("low DC gain: %v", err)
+	}
+}
+
+func TestPredistort(t *testing.T) {
+	st := filter.Stage{Kind: filter.LowpassStage, Order: 2, F0Hz: 20e3, Q: 3, Gain: 1}
+	op := OpAmp{GBWHz: 2e6, DCGain: 1e5, ROutOhm: 50}
+	for _, k := range []Kind{SallenKey, MultipleFeedback, StateVariable, TowThomas} {
+		c, err := RealizeStage(st, Options{Kind: k})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f0, q, _ := c.DominantWith(op)
+		p, err := c.Predistort(op)
+		if err != nil {
+			t.Fatalf("%v: %v", k, err)
+		}
+		pf, pq, err := p.DominantWith(op)
+		if err != nil || math.Abs(pf/st.F0Hz-1) > 1e-9 || math.Abs(pq/st.Q-1) > 1e-9 {
+			t.Errorf("%v: predistorted f0 %g Q %g (err %v); before %g, %g", k, pf, pq, err, f0, q)
+		}
+	}
+}
+
+func TestSlewRate(t *testing.T) {
+	// 10 V peak at 20 kHz: 2π·20e3·10 = 1.2566 V/µs (arithmetic).
+	if got := SlewRateVPerUs(10, 20e3); math.Abs(got-1.2566370614359172) > 1e-12 {
+		t.Errorf("got %g", got)
+	}
+}
+
+func TestAtHzWithBadOpAmp(t *testing.T) {
+	c, _ := RealizeStage(filter.Stage{Kind: filter.LowpassStage, Order: 1, F0Hz: 1e3, Gain: 1}, Options{})
+	if h := c.AtHzWith(OpAmp{GBWHz: math.NaN()}, 10); !math.IsNaN(real(h)) {
+		t.Errorf("NaN GBW: %v", h)
+	}
+	if _, err := c.Predistort(OpAmp{GBWHz: -1}); !errors.Is(err, ErrOpAmp) {
+		t.Errorf("negative GBW: %v", err)
+	}
+}
