@@ -297,6 +297,9 @@ func TestPassbandMaximumProperty(t *testing.T) {
 		}
 		n := rapid.IntRange(1, min(20, protoMaxOrder(f))).Draw(t, "n")
 		h, err := f.Prototype(n)
+		if _, ok := f.(Elliptic); ok && errors.Is(err, ErrRange) {
+			return // pole Q beyond MaxEllipticQ: refused by design
+		}
 		if err != nil {
 			t.Fatal(err)
 		}
