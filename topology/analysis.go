@@ -13,9 +13,10 @@ import (
 // Errors of the allocation-free paths, prebuilt so that returning them
 // does not allocate.
 var (
-	errValueCount = fmt.Errorf("topology: number of values differs from the number of parts: %w", ErrParts)
-	errValueBad   = fmt.Errorf("topology: part value not positive and finite: %w", ErrParts)
-	errSingular   = fmt.Errorf("topology: circuit matrix singular at a sample frequency (unstable or floating circuit): %w", ErrParts)
+	errValueCount   = fmt.Errorf("topology: number of values differs from the number of parts: %w", ErrParts)
+	errValueBad     = fmt.Errorf("topology: part value not positive and finite: %w", ErrParts)
+	errCoefficients = fmt.Errorf("topology: circuit transfer is not of second order with these values: %w", ErrParts)
+	errSingular     = fmt.Errorf("topology: circuit matrix singular at a sample frequency (unstable or floating circuit): %w", ErrParts)
 )
 
 // valuesOf copies c's part values into buf and checks them.
@@ -219,14 +220,27 @@ func (c Circuit) BiquadOf(values []float64) (Biquad, error) {
 	return biquadOf(d, &w, values, mna.RadiusOf(&d.net, values))
 }
 
+// biquadOf interpolates the template's transfer at as many points as its
+// capacitor count needs (three capacitors in the multiple-feedback
+// highpass, whose op-amp constraint still leaves it second order) and
+// returns the coefficients up to s², checking that higher ones vanish.
 func biquadOf(d *design, w *mna.Workspace, v []float64, radius float64) (Biquad, error) {
 	var b Biquad
-	if err := w.Coefficients(&d.net, v, mna.Amp{}, radius, b.Num[:], b.Den[:]); err != nil {
+	var num, den [mna.MaxDim + 1]float64
+	m := max(d.net.Degree(mna.Amp{})+1, 3)
+	if err := w.Coefficients(&d.net, v, mna.Amp{}, radius, num[:m], den[:m]); err != nil {
 		if errors.Is(err, mna.ErrSingular) {
 			return Biquad{}, errSingular
 		}
-		return Biquad{}, fmt.Errorf("topology: %v: %w", err, ErrParts)
+		return Biquad{}, errCoefficients
 	}
+	for j := 3; j < m; j++ {
+		if num[j] != 0 || den[j] != 0 {
+			return Biquad{}, errCoefficients
+		}
+	}
+	copy(b.Num[:], num[:3])
+	copy(b.Den[:], den[:3])
 	return b, nil
 }
 

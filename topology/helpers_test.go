@@ -91,3 +91,5 @@ func passLevel(st filter.Stage) float64 {
 	r := st.F0Hz / st.ZeroHz
 	return math.Abs(st.Gain) * math.Min(1, r*r)
 }
+
+func cmplxAbs(z complex128) float64 { return math.Hypot(real(z), imag(z)) }

@@ -148,6 +148,7 @@ func (w *Workspace) Coefficients(n *Netlist, values []float64, a Amp, radius flo
 		num[j] = rn[j] * sc
 		den[j] = rd[j] * sc
 	}
+	den[lead] = 1 // exactly, not rd·(1/rd)
 	return nil
 }
 
