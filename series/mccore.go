@@ -113,10 +113,10 @@ func (p *mcPlan) work(next *atomic.Int64, nblocks int, db []float64, blocks []bl
 	vals := make([][]float64, len(p.stages))
 	for s, stg := range p.stages {
 		evals[s] = stg.newEval()
-		vals[s] = make([]float64, len(stg.nominal))
+		vals[s] = padded(len(stg.nominal))
 	}
-	pw := make([]float64, nf)
-	row := make([]float64, nf)
+	pw := padded(nf)
+	row := padded(nf)
 	needDB := p.keepDB || p.moments
 	for {
 		b := int(next.Add(1)) - 1
@@ -202,6 +202,15 @@ func (p *mcPlan) trial(st stream, i uint64, evals []evalFunc, vals [][]float64, 
 		}
 	}
 	return true
+}
+
+// padded returns a slice of n float64s with a cache line (or two) of
+// unused space on each side, so that the small buffers of different
+// workers never share a cache line (false sharing made two workers slower
+// than one).
+func padded(n int) []float64 {
+	const pad = 16 // 128 bytes
+	return make([]float64, n+2*pad)[pad : pad+n : pad+n]
 }
 
 // mergeBlocks merges per-block means and sums of squared deviations in
