@@ -31,7 +31,9 @@ func (Chebyshev) MaxOrder() int { return MaxChebyshevOrder }
 //
 // Accuracy: 1e-13 relative for 1 ≤ n ≤ MaxChebyshevOrder. Errors: ErrOrder
 // for n outside that range, ErrParam for a RippleDB that is not positive
-// and finite.
+// and finite, ErrRange for one so large (above about 3000 dB) or so small
+// (subnormal) that ε² is not a normal float64, or a gain float64 cannot
+// hold.
 func (c Chebyshev) Prototype(n int) (Transfer, error) {
 	if err := checkOrder(c.String(), n, MaxChebyshevOrder); err != nil {
 		return Transfer{}, err
@@ -40,6 +42,9 @@ func (c Chebyshev) Prototype(n int) (Transfer, error) {
 		return Transfer{}, err
 	}
 	eps2 := powerRatioM1(c.RippleDB)
+	if math.IsInf(eps2, 1) || eps2 == 0 {
+		return Transfer{}, fmt.Errorf("filter: Chebyshev RippleDB %g: ripple factor beyond float64 range: %w", c.RippleDB, ErrRange)
+	}
 	mu := math.Asinh(1/math.Sqrt(eps2)) / float64(n)
 	poles := chebyshevPoles(n, math.Sinh(mu), math.Cosh(mu))
 	h0 := 1.0
@@ -74,7 +79,8 @@ func (InverseChebyshev) MaxOrder() int { return MaxChebyshevOrder }
 //
 // Accuracy: 1e-13 relative for 1 ≤ n ≤ MaxChebyshevOrder. Errors: ErrOrder
 // for n outside that range, ErrParam for an AttenDB that is not positive
-// and finite.
+// and finite, ErrRange for one whose 10^(AttenDB/10) − 1 float64 cannot
+// hold (above about 3000 dB, or subnormal) or a gain it cannot hold.
 func (c InverseChebyshev) Prototype(n int) (Transfer, error) {
 	if err := checkOrder(c.String(), n, MaxChebyshevOrder); err != nil {
 		return Transfer{}, err
@@ -83,7 +89,11 @@ func (c InverseChebyshev) Prototype(n int) (Transfer, error) {
 		return Transfer{}, err
 	}
 	// 1/ε = √(10^(AttenDB/10) − 1).
-	mu := math.Asinh(math.Sqrt(powerRatioM1(c.AttenDB))) / float64(n)
+	ie2 := powerRatioM1(c.AttenDB)
+	if math.IsInf(ie2, 1) || ie2 == 0 {
+		return Transfer{}, fmt.Errorf("filter: InverseChebyshev AttenDB %g: ripple factor beyond float64 range: %w", c.AttenDB, ErrRange)
+	}
+	mu := math.Asinh(math.Sqrt(ie2)) / float64(n)
 	poles := chebyshevPoles(n, math.Sinh(mu), math.Cosh(mu))
 	zeros := make([]complex128, 0, n-n%2)
 	for i, p := range poles {
