@@ -1,0 +1,87 @@
+package topology_test
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+	"os"
+
+	"github.com/rolloff/rolloff/filter"
+	"github.com/rolloff/rolloff/topology"
+)
+
+// A 2 kHz anti-alias lowpass stage (Butterworth Q) for a sensor input, as a
+// unity-gain Sallen-Key circuit with a 10 nF reference capacitor.
+func ExampleRealizeStage() {
+	st := filter.Stage{Kind: filter.LowpassStage, Order: 2, F0Hz: 2e3, Q: 1 / math.Sqrt2, Gain: 1}
+	c, err := topology.RealizeStage(st, topology.Options{Kind: topology.SallenKey, CapF: 10e-9})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, p := range c.Parts {
+		fmt.Printf("%s %.4g\n", p.Ref, p.Value)
+	}
+	fmt.Printf("|H(2 kHz)| = %.2f dB\n", 20*math.Log10(cmplx.Abs(c.AtHz(2e3))))
+	// Output:
+	// R1 2378
+	// R2 8876
+	// C1 3e-08
+	// C2 1e-08
+	// |H(2 kHz)| = -3.01 dB
+}
+
+// A chain written as a SPICE deck for ngspice.
+func ExampleChain_WriteSPICE() {
+	ch, err := topology.Realize([]filter.Stage{
+		{Kind: filter.HighpassStage, Order: 1, F0Hz: 20, Gain: 1},
+	}, topology.Options{CapF: 1e-6})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	if err := ch.WriteSPICE(os.Stdout); err != nil {
+		fmt.Println(err)
+	}
+	// Output:
+	// rolloff filter chain, 1 stage(s)
+	// * ideal op-amps are VCVS of gain 1e+07; the input is node in, the output node out
+	// VIN in 0 AC 1
+	// * stage 1: rc-follower highpass, order 1, f0 = 20 Hz, gain = 1
+	// C1_s1 in s1_a 1e-06
+	// R1_s1 s1_a 0 7957.74715459
+	// E1_s1 out 0 s1_a out 1e+07
+	// .end
+}
+
+// What the parts really do after snapping the capacitors, and how fast an
+// op-amp the stage needs.
+func ExampleCircuit_Refit() {
+	st := filter.Stage{Kind: filter.BandpassStage, Order: 2, F0Hz: 1e3, Q: 8, Gain: 1}
+	c, _ := topology.RealizeStage(st, topology.Options{CapF: 22e-9})
+	r, err := c.Refit([]topology.Part{{Ref: "C1", Value: 22e-9}, {Ref: "C2", Value: 22e-9}})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	a, _ := r.Achieved()
+	fmt.Printf("%v, inverting %v: f0 %.1f Hz, Q %.2f, gain %.2f\n", r.Kind, r.Inverting(), a.F0Hz, a.Q, a.Gain)
+	gbw, _ := r.RequiredGBWHz(0.01)
+	fmt.Printf("GBW for 1%%: %.2g Hz (rule of thumb %.2g Hz)\n", gbw, r.RuleOfThumbGBWHz())
+	// Output:
+	// multiple-feedback, inverting true: f0 1000.0 Hz, Q 8.00, gain 1.00
+	// GBW for 1%: 7.9e+05 Hz (rule of thumb 8e+05 Hz)
+}
+
+// Monte Carlo style evaluation: one Evaluator per goroutine.
+func ExampleEvaluator_Achieved() {
+	st := filter.Stage{Kind: filter.LowpassStage, Order: 2, F0Hz: 500, Q: 0.7071, Gain: 1}
+	c, _ := topology.RealizeStage(st, topology.Options{})
+	ev, _ := c.NewEvaluator()
+	v := c.Values()
+	v[0] *= 1.01 // R1 one percent high
+	a, _ := ev.Achieved(v)
+	fmt.Printf("f0 %.2f Hz, Q %.4f\n", a.F0Hz, a.Q)
+	// Output:
+	// f0 497.52 Hz, Q 0.7091
+}
