@@ -267,3 +267,135 @@ func TestDesignErrors(t *testing.T) {
 		t.Errorf("pointer family: %d %v, value %d %v", n1, err1, n2, err2)
 	}
 }
+
+// TestMinOrderHandbook checks worked examples against outside values.
+func TestMinOrderHandbook(t *testing.T) {
+	for _, c := range []struct {
+		source string
+		f      Family
+		s      Spec
+		want   int
+	}{
+		// Common practice (and the closed form log(10^4−1)/(2·log 4) = 3.32):
+		// a Butterworth 3 dB down at 1 kHz and 40 dB down at 4 kHz is 4th order.
+		{"common practice", Butterworth{}, Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{4000}, RippleDB: 3.0103, AttenDB: 40}, 4},
+		// From memory of the Butterworth attenuation curves of Williams &
+		// Taylor, "Electronic Filter Design Handbook", ch. 2: 60 dB at three
+		// times the 3 dB frequency needs n = 7 (closed form 6.29).
+		{"from memory of Williams & Taylor, Butterworth curves", Butterworth{}, Spec{Band: Lowpass, PassHz: [2]float64{100}, StopHz: [2]float64{300}, RippleDB: 3, AttenDB: 60}, 7},
+		// From memory of the same handbook's 0.5 dB Chebyshev curves: 40 dB
+		// at twice the ripple edge needs n = 5 (closed form 4.82).
+		{"from memory of Williams & Taylor, 0.5 dB Chebyshev curves", Chebyshev{RippleDB: 0.5}, Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{2000}, RippleDB: 0.5, AttenDB: 40}, 5},
+		// Common practice: the same order for the highpass mirror of a mask.
+		{"common practice (highpass mirror)", Chebyshev{RippleDB: 0.5}, Spec{Band: Highpass, PassHz: [2]float64{1000}, StopHz: [2]float64{500}, RippleDB: 0.5, AttenDB: 40}, 5},
+	} {
+		n, err := MinOrder(c.f, c.s)
+		if err != nil || n != c.want {
+			t.Errorf("%s: %v %+v: order %d (%v), want %d", c.source, c.f, c.s, n, err, c.want)
+		}
+	}
+}
+
+// Benchmark masks, invented: a 1 kHz anti-alias lowpass that the elliptic
+// family meets at order 6, and a 10 kHz carrier bandpass that the Chebyshev
+// family meets at prototype order 4 (8 poles).
+var (
+	benchEllipticMask = Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{1250}, RippleDB: 0.5, AttenDB: 50}
+	benchBandpassMask = Spec{Band: Bandpass, PassHz: [2]float64{9000, 11000}, StopHz: [2]float64{7500, 13200}, RippleDB: 0.5, AttenDB: 40}
+)
+
+func BenchmarkDesign(b *testing.B) {
+	for _, c := range []struct {
+		name  string
+		f     Family
+		s     Spec
+		poles int
+	}{
+		{"Elliptic6Lowpass", Elliptic{}, benchEllipticMask, 6},
+		{"Chebyshev8Bandpass", Chebyshev{}, benchBandpassMask, 8},
+		{"Bessel", Bessel{}, Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{10000}, RippleDB: 1, AttenDB: 40}, 0},
+	} {
+		h, err := Design(c.f, c.s)
+		if err != nil || (c.poles > 0 && len(h.Poles) != c.poles) {
+			b.Fatalf("%s: %d poles (%v), want %d", c.name, len(h.Poles), err, c.poles)
+		}
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := Design(c.f, c.s); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+func BenchmarkMinOrder(b *testing.B) {
+	for _, c := range []struct {
+		name string
+		f    Family
+		s    Spec
+	}{
+		{"Butterworth", Butterworth{}, benchEllipticMask},
+		{"Elliptic", Elliptic{}, benchEllipticMask},
+		{"EllipticBandstop", Elliptic{}, Spec{Band: Bandstop, PassHz: [2]float64{40, 75}, StopHz: [2]float64{48, 52}, RippleDB: 1, AttenDB: 40}},
+	} {
+		b.Run(c.name, func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := MinOrder(c.f, c.s); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+// FuzzDesign: Design never panics on any spec; its result is either an
+// error wrapping one of the package's sentinels or a stable filter that
+// meets the mask.
+func FuzzDesign(f *testing.F) {
+	f.Add(uint8(1), uint8(0), 1000.0, 0.0, 2000.0, 0.0, 1.0, 40.0)
+	f.Add(uint8(2), uint8(1), 1000.0, 0.0, 300.0, 0.0, 0.5, 60.0)
+	f.Add(uint8(3), uint8(2), 1000.0, 2000.0, 500.0, 4000.0, 1.0, 40.0)
+	f.Add(uint8(4), uint8(3), 40.0, 75.0, 48.0, 52.0, 1.0, 40.0)
+	f.Add(uint8(1), uint8(4), 1000.0, 0.0, 5000.0, 0.0, 1.0, 30.0)
+	f.Add(uint8(0), uint8(0), math.NaN(), math.Inf(1), -1.0, 0.0, 0.0, -3.0)
+	f.Add(uint8(1), uint8(3), 1000.0, 0.0, 1000.0000001, 0.0, 0.1, 200.0)
+	f.Fuzz(func(t *testing.T, band, fam uint8, p0, p1, s0, s1, rp, as float64) {
+		s := Spec{Band: Band(band % 6), PassHz: [2]float64{p0, p1}, StopHz: [2]float64{s0, s1}, RippleDB: rp, AttenDB: as}
+		var fy Family
+		switch fam % 6 {
+		case 0:
+			fy = Butterworth{}
+		case 1:
+			fy = Chebyshev{}
+		case 2:
+			fy = InverseChebyshev{}
+		case 3:
+			fy = Elliptic{}
+		case 4:
+			fy = Bessel{}
+		default:
+			fy = Elliptic{RippleDB: rp / 2, AttenDB: as + 3}
+		}
+		h, err := Design(fy, s)
+		if err != nil {
+			for _, e := range []error{ErrSpec, ErrParam, ErrRange, ErrOrder, ErrFrequency} {
+				if errors.Is(err, e) {
+					return
+				}
+			}
+			t.Fatalf("error %v wraps no sentinel", err)
+		}
+		for _, p := range h.Poles {
+			if !(real(p) < 0) {
+				t.Fatalf("pole %v not in the left half-plane", p)
+			}
+		}
+		r, _ := resolve(fy, s)
+		if !meets(h, s, r.rp, r.as) {
+			t.Fatalf("%v %+v: design misses the mask", fy, s)
+		}
+	})
+}

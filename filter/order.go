@@ -173,7 +173,8 @@ func (r resolved) estimate(sel float64) (n float64, ok bool) {
 // MinOrder returns the least prototype order of f for which Design(f, s)
 // meets the mask s (bandpass and bandstop designs have twice that many
 // poles). The family's own RippleDB or AttenDB, when non-zero, is used and
-// must be no looser than the spec's; zero takes the spec's.
+// must be no looser than the spec's; zero takes the spec's. The mask then
+// met is the spec's with the family's stricter values in their place.
 //
 // Butterworth, Chebyshev, InverseChebyshev and Elliptic start from the
 // closed-form estimate (see resolved.estimate); Bessel and families
@@ -213,9 +214,9 @@ func MinOrder(f Family, s Spec) (int, error) {
 //     (less than RippleDB of droop at PassHz).
 //   - Elliptic: the passband edge is exact with the ripple RippleDB; when
 //     the family's AttenDB is zero the stopband edge is exact too and the
-//     slack raises the stopband attenuation above the spec's (up to at
-//     most 150 dB, beyond which the spec's is kept and the stopband edge
-//     moves down instead); when the family fixes AttenDB that attenuation
+//     slack raises the stopband attenuation above the spec's, to what the
+//     order reaches at StopHz (capped at 150 dB; past the cap the stopband
+//     starts below StopHz); when the family fixes AttenDB that attenuation
 //     is used as it is and the slack narrows the transition (the stopband
 //     starts below StopHz).
 //

@@ -2,6 +2,7 @@ package filter
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"math/cmplx"
 	"slices"
@@ -261,6 +262,32 @@ func TestStagesErrors(t *testing.T) {
 	} {
 		if _, err := c.h.StagesWith(c.opt); !errors.Is(err, c.want) {
 			t.Errorf("%s: error %v, want %v", c.reason, err, c.want)
+		}
+	}
+}
+
+func BenchmarkStages(b *testing.B) {
+	for _, c := range []struct {
+		name string
+		f    Family
+		s    Spec
+	}{
+		{"Elliptic6Lowpass", Elliptic{}, benchEllipticMask},
+		{"Chebyshev8Bandpass", Chebyshev{}, benchBandpassMask},
+	} {
+		h, err := Design(c.f, c.s)
+		if err != nil {
+			b.Fatal(err)
+		}
+		for _, plan := range []GainPlan{GainDynamic, GainLast} {
+			b.Run(fmt.Sprint(c.name, "/plan", int(plan)), func(b *testing.B) {
+				b.ReportAllocs()
+				for b.Loop() {
+					if _, err := h.StagesWith(StageOptions{Gain: plan}); err != nil {
+						b.Fatal(err)
+					}
+				}
+			})
 		}
 	}
 }
