@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"fmt"
 	"io"
+	"math"
 
 	"github.com/rolloff/rolloff/filter"
 	"github.com/rolloff/rolloff/internal/mna"
@@ -29,6 +30,28 @@ const SPICEOpAmpGain = 1e7
 // Errors wrap ErrStage for an empty chain, the template errors of a circuit
 // that fits no template, and any error of w.
 func (c Chain) WriteSPICE(w io.Writer) error {
+	return c.writeDeck(w, nil)
+}
+
+// WriteSPICEWith writes the deck of WriteSPICE with every op-amp as the
+// single-pole macro model of op instead of a large-gain VCVS: a
+// transconductance A0 (A/V, from the inputs) into 1 Ω parallel to
+// A0/(2π·GBW) farads (the open-loop pole at GBW/A0), buffered by a
+// unity-gain VCVS behind ROutOhm (omitted when 0). Its AC response is the
+// model of AtHzWith(op, f). op must have a finite positive DCGain and
+// GBWHz (SPICE needs a DC path at every node); errors wrap ErrOpAmp, and
+// as WriteSPICE.
+func (c Chain) WriteSPICEWith(w io.Writer, op OpAmp) error {
+	if _, err := op.amp(); err != nil {
+		return err
+	}
+	if !(op.DCGain > 0) || math.IsInf(op.DCGain, 0) || !(op.GBWHz > 0) || math.IsInf(op.GBWHz, 0) {
+		return fmt.Errorf("topology: WriteSPICEWith: DCGain %g and GBWHz %g must be positive and finite: %w", op.DCGain, op.GBWHz, ErrOpAmp)
+	}
+	return c.writeDeck(w, &op)
+}
+
+func (c Chain) writeDeck(w io.Writer, op *OpAmp) error {
 	if len(c.Circuits) == 0 {
 		return fmt.Errorf("topology: WriteSPICE: empty chain: %w", ErrStage)
 	}
@@ -45,7 +68,12 @@ func (c Chain) WriteSPICE(w io.Writer) error {
 	}
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "rolloff filter chain, %d stage(s)\n", len(c.Circuits))
-	fmt.Fprintf(bw, "* ideal op-amps are VCVS of gain %.0e; the input is node in, the output node out\n", SPICEOpAmpGain)
+	if op == nil {
+		fmt.Fprintf(bw, "* ideal op-amps are VCVS of gain %.0e; the input is node in, the output node out\n", SPICEOpAmpGain)
+	} else {
+		fmt.Fprintf(bw, "* op-amps: DC gain %.6g, GBW %.6g Hz, output resistance %.6g ohm (one-pole macro model); the input is node in, the output node out\n",
+			op.DCGain, op.GBWHz, op.ROutOhm)
+	}
 	fmt.Fprintf(bw, "VIN in 0 AC 1\n")
 	last := len(c.Circuits) - 1
 	for i, ci := range c.Circuits {
@@ -74,7 +102,22 @@ func (c Chain) WriteSPICE(w io.Writer) error {
 				fmt.Fprintf(bw, "%s_s%d %s %s %.12g\n", d.refs[e.Value], k, node(e.A), node(e.B), ci.Parts[e.Value].Value)
 			case mna.OpAmp:
 				amp++
-				fmt.Fprintf(bw, "E%d_s%d %s 0 %s %s %.0e\n", amp, k, node(e.Out), node(e.A), node(e.B), SPICEOpAmpGain)
+				if op == nil {
+					fmt.Fprintf(bw, "E%d_s%d %s 0 %s %s %.0e\n", amp, k, node(e.Out), node(e.A), node(e.B), SPICEOpAmpGain)
+					continue
+				}
+				x := fmt.Sprintf("s%d_u%dx", k, amp)
+				y := node(e.Out)
+				if op.ROutOhm > 0 {
+					y = fmt.Sprintf("s%d_u%dy", k, amp)
+				}
+				fmt.Fprintf(bw, "G%d_s%d 0 %s %s %s %.12g\n", amp, k, x, node(e.A), node(e.B), op.DCGain)
+				fmt.Fprintf(bw, "RP%d_s%d %s 0 1\n", amp, k, x)
+				fmt.Fprintf(bw, "CP%d_s%d %s 0 %.12g\n", amp, k, x, op.DCGain/(2*math.Pi*op.GBWHz))
+				fmt.Fprintf(bw, "E%d_s%d %s 0 %s 0 1\n", amp, k, y, x)
+				if op.ROutOhm > 0 {
+					fmt.Fprintf(bw, "RO%d_s%d %s %s %.12g\n", amp, k, y, node(e.Out), op.ROutOhm)
+				}
 			}
 		}
 	}

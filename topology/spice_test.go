@@ -1,7 +1,9 @@
 package topology
 
 import (
+	"errors"
 	"fmt"
+	"io"
 	"math"
 	"math/cmplx"
 	"strings"
@@ -120,4 +122,62 @@ func checkDeck(t *testing.T, name string, ch Chain, f0 float64) {
 		}
 	}
 	t.Logf("%s: %d points, worst %.2g dB", name, len(sw.Hz), worst)
+}
+
+// TestSPICENonIdeal simulates every kind with a slow op-amp macro model
+// (DC gain 1e5, GBW 200 kHz, 100 Ω output) and compares with AtHzWith: the
+// non-ideal nodal analysis against ngspice.
+func TestSPICENonIdeal(t *testing.T) {
+	ngspice.Required(t)
+	op := OpAmp{GBWHz: 200e3, DCGain: 1e5, ROutOhm: 100}
+	for _, k := range allKinds {
+		for _, sk := range support[k] {
+			st := filter.Stage{Kind: sk.kind, Order: sk.order, F0Hz: 5e3, Gain: 1}
+			if sk.order == 2 {
+				st.Q = 2
+			}
+			if sk.kind == filter.NotchStage {
+				st.ZeroHz = 6e3
+			}
+			if k == SallenKeyEqual {
+				st.Gain = 1.2
+			}
+			c, err := RealizeStage(st, Options{Kind: k})
+			if err != nil {
+				t.Fatalf("%v %v: %v", k, sk.kind, err)
+			}
+			ch := Chain{Circuits: []Circuit{c}}
+			var b strings.Builder
+			if err := ch.WriteSPICEWith(&b, op); err != nil {
+				t.Fatal(err)
+			}
+			sw, err := ngspice.AC(b.String(), "out", 20, 50, 5e5)
+			if err != nil {
+				t.Fatalf("%v: %v\n%s", k, err, b.String())
+			}
+			worst := 0.0
+			for i, f := range sw.Hz {
+				db := 20 * math.Log10(cmplx.Abs(c.AtHzWith(op, f)))
+				worst = math.Max(worst, math.Abs(db-sw.GainDB[i]))
+			}
+			if worst > spiceDB {
+				t.Errorf("%v %v: worst difference %g dB\n%s", k, sk.kind, worst, b.String())
+			}
+			// The slow op-amp must visibly matter, or the check proves nothing.
+			moved := 0.0
+			for _, f := range sw.Hz {
+				moved = math.Max(moved, math.Abs(20*math.Log10(cmplx.Abs(c.AtHzWith(op, f))/cmplx.Abs(c.AtHz(f)))))
+			}
+			if moved < 0.1 {
+				t.Errorf("%v %v: the op-amp model changes the response by only %g dB", k, sk.kind, moved)
+			}
+			t.Logf("%v %v: worst %.2g dB, op-amp effect up to %.2g dB", k, sk.kind, worst, moved)
+		}
+	}
+	if err := (Chain{}).WriteSPICEWith(io.Discard, op); !errors.Is(err, ErrStage) {
+		t.Errorf("empty chain: %v", err)
+	}
+	if err := (Chain{}).WriteSPICEWith(io.Discard, OpAmp{GBWHz: 1e6}); !errors.Is(err, ErrOpAmp) {
+		t.Errorf("infinite DC gain: %v", err)
+	}
 }
