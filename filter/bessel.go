@@ -58,8 +58,9 @@ func (n BesselNorm) String() string {
 // The poles are the roots of θₙ with its exact integer coefficients: a
 // float64 Aberth–Ehrlich start polished by the same iteration in 256-bit
 // arithmetic (poly.PolishBig), since θₙ is too ill-conditioned above order
-// ~15 for float64 polishing. Ordering as in prototype.go (pairs by
-// descending Q, real pole last). The polished roots of each order are
+// ~15 for float64 polishing. Poles are in conjugate pairs by
+// descending Q, positive-imaginary member first, the real pole of an odd
+// order last. The polished roots of each order are
 // computed once and kept for the life of the program (safe for concurrent
 // use).
 //

@@ -18,9 +18,9 @@ func (Butterworth) MaxOrder() int { return MaxButterworthOrder }
 // p = −sin θₖ + j·cos θₖ with θₖ = (2k+1)π/(2n), k = 0…n−1 (from memory of
 // any filter handbook, e.g. Zverev, "Handbook of Filter Synthesis", 1967;
 // the cosine is evaluated as sin((n−2k−1)π/(2n)) so that it keeps full
-// relative accuracy). Gain is 1. Poles are ordered as described in
-// prototype.go: pairs by descending Q, positive-imaginary member first,
-// the real pole of an odd order last.
+// relative accuracy). Gain is 1. Poles are in conjugate pairs by
+// descending Q, positive-imaginary member first, the real pole of an odd
+// order last.
 //
 // Poles are accurate to 1e-14 relative for 1 ≤ n ≤ MaxButterworthOrder;
 // other orders return an error wrapping ErrOrder.

@@ -26,7 +26,8 @@ func (Chebyshev) MaxOrder() int { return MaxChebyshevOrder }
 // With μ = asinh(1/ε)/n and θₖ = (2k+1)π/(2n) the poles are
 // −sinh μ·sin θₖ + j·cosh μ·cos θₖ (from memory of Zverev, "Handbook of
 // Filter Synthesis", and of Williams & Taylor, "Electronic Filter Design
-// Handbook"), ordered as described in prototype.go; the gain is
+// Handbook"), in conjugate pairs by descending Q, positive-imaginary member
+// first, the real pole of an odd order last; the gain is
 // H(0)·Π(−p).
 //
 // Accuracy: 1e-13 relative for 1 ≤ n ≤ MaxChebyshevOrder. Errors: ErrOrder
@@ -74,8 +75,10 @@ func (InverseChebyshev) MaxOrder() int { return MaxChebyshevOrder }
 // (μ = asinh(1/ε)/n), the zeros ±j/cos θₖ, θₖ = (2k+1)π/(2n), with the
 // infinite zero of odd orders omitted (from memory of Daniels,
 // "Approximation Methods for Electronic Filter Design", 1974, and of
-// Williams & Taylor). Ordering as in prototype.go, zero pair k belonging
-// to pole pair k. The gain is Π(−p)/Π(−z), so H(0) = 1.
+// Williams & Taylor). Poles and zeros are in conjugate pairs,
+// positive-imaginary member first, pole pairs by descending Q with the
+// real pole of an odd order last, zero pair k belonging to pole pair k
+// (zeros in ascending frequency). The gain is Π(−p)/Π(−z), so H(0) = 1.
 //
 // Accuracy: 1e-13 relative for 1 ≤ n ≤ MaxChebyshevOrder. Errors: ErrOrder
 // for n outside that range, ErrParam for an AttenDB that is not positive

@@ -44,8 +44,11 @@ func (Elliptic) MaxOrder() int { return MaxEllipticOrder }
 // i = 1…⌊n/2⌋, zeros ±j/(k·cd(uᵢK, k)) and poles j·cd((uᵢ − j·v0)K, k),
 // where v0 = sc⁻¹(1/εp, k1')/(n·K(k1)) is computed as
 // R_F(εp², εp²+k1², εp²+1)/(n·K(k1)) (DLMF 19.25.5 with 22.15 inverse
-// functions); odd n adds the real pole j·cd((1 − j·v0)K, k). Ordering as in
-// prototype.go; the gain is H(0)·Π(−p)/Π(−z).
+// functions); odd n adds the real pole j·cd((1 − j·v0)K, k). Poles and
+// zeros are in conjugate pairs, positive-imaginary member first, pole
+// pairs by descending Q with the real pole of an odd order last, zero pair
+// i belonging to pole pair i (zeros in ascending frequency). The gain is
+// H(0)·Π(−p)/Π(−z).
 //
 // Accuracy: 1e-9 relative (real parts of the poles included) for
 // 1 ≤ n ≤ MaxEllipticOrder and 0 < RippleDB < AttenDB with AttenDB up to a

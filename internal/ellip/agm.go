@@ -35,8 +35,8 @@ func AGM(a, b float64) float64 {
 // units in the last place for 0 ≤ k < 1; for k within 1e-8 of 1 prefer
 // KComp with an accurately known complementary modulus.
 //
-// Special cases are: K(0) = π/2; K(1) = +Inf; K(k) is NaN for k outside
-// [0, 1] and for NaN. K is even in k for −1 ≤ k < 0.
+// Special cases are: K(0) = π/2; K(±1) = +Inf; K(k) is NaN for |k| > 1
+// and for NaN. K is even in k.
 func K(k float64) float64 {
 	k = math.Abs(k)
 	if !(k <= 1) {
@@ -51,8 +51,8 @@ func K(k float64) float64 {
 // kc in [0, 1], including kc near 0 where k is too close to 1 to be
 // represented.
 //
-// Special cases are: KComp(0) = +Inf; KComp(1) = π/2; NaN for kc outside
-// [0, 1] and for NaN.
+// Special cases are: KComp(0) = +Inf; KComp(1) = π/2; NaN for |kc| > 1
+// and for NaN. KComp is even in kc.
 func KComp(kc float64) float64 {
 	kc = math.Abs(kc)
 	if !(kc <= 1) {
