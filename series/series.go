@@ -232,11 +232,19 @@ func (s Series) check(v float64, what string) error {
 	if !(v > 0) || math.IsInf(v, 0) {
 		return fmt.Errorf("series: %s of %g (want a positive finite value): %w", what, v, ErrValue)
 	}
+	if v < minNormal {
+		return fmt.Errorf("series: %s of %g: below the normal float64 range: %w", what, v, ErrRange)
+	}
 	return nil
 }
 
+// minNormal is the smallest normal float64. Below it (subnormal numbers)
+// the standard values cannot be told apart, so inputs and results there are
+// out of range.
+const minNormal = 0x1p-1022
+
 func finite(v float64, what string, in float64) (float64, error) {
-	if v == 0 || math.IsInf(v, 0) || math.IsNaN(v) {
+	if v < minNormal || math.IsInf(v, 0) || math.IsNaN(v) {
 		return math.NaN(), fmt.Errorf("series: %s of %g is beyond float64: %w", what, in, ErrRange)
 	}
 	return v, nil
@@ -247,7 +255,8 @@ func finite(v float64, what string, in float64) (float64, error) {
 // half-step of v. A tie (v exactly at the geometric mean of two neighbours)
 // goes to the larger value.
 //
-// Special cases are: Nearest of zero, a negative value, NaN or ±Inf, or
+// Special cases are: Nearest of zero, a negative value, NaN or ±Inf, of a
+// subnormal value (below 2.2e-308) or with a result beyond float64, or
 // Nearest of the zero Series, returns NaN (NearestValue says why).
 func (s Series) Nearest(v float64) float64 {
 	x, _ := s.NearestValue(v)
@@ -255,8 +264,9 @@ func (s Series) Nearest(v float64) float64 {
 }
 
 // NearestValue is Nearest with an error for bad input: ErrSeries for the
-// zero Series, ErrValue for v not positive and finite, ErrRange where the
-// nearest value is beyond float64.
+// zero Series, ErrValue for v not positive and finite, ErrRange for a
+// subnormal v or where the nearest value is beyond the normal float64
+// range.
 func (s Series) NearestValue(v float64) (float64, error) {
 	if err := s.check(v, "nearest value"); err != nil {
 		return math.NaN(), err
@@ -322,7 +332,7 @@ func (s Series) Neighbours(v float64) (Neighbourhood, error) {
 	var err error
 	n.Nearest, err = s.NearestValue(v)
 	for _, x := range []float64{n.Below, n.Floor, n.Ceil, n.Above} {
-		if x == 0 || math.IsInf(x, 0) {
+		if x < minNormal || math.IsInf(x, 0) {
 			err = fmt.Errorf("series: neighbours of %g are beyond float64: %w", v, ErrRange)
 		}
 	}
@@ -342,7 +352,7 @@ func (s Series) step(v float64, k int) float64 {
 	t := s.tab()
 	p, _ := t.position(x)
 	y := t.value(p + k)
-	if y == 0 || math.IsInf(y, 0) {
+	if y < minNormal || math.IsInf(y, 0) {
 		return math.NaN()
 	}
 	return y

@@ -325,3 +325,25 @@ func TestValuesAreLiterals(t *testing.T) {
 		}
 	})
 }
+
+func FuzzNearest(f *testing.F) {
+	for _, v := range []float64{1, 4.7e3, 9.99, 1e-12, 0, -1, math.NaN(), math.Inf(1), math.MaxFloat64, 5e-324} {
+		f.Add(v, uint8(3))
+	}
+	f.Fuzz(func(t *testing.T, v float64, which uint8) {
+		s := All[int(which)%len(All)]
+		x, err := s.NearestValue(v)
+		if err != nil {
+			if !math.IsNaN(x) || !(errors.Is(err, ErrValue) || errors.Is(err, ErrRange)) {
+				t.Fatalf("NearestValue(%g) = %g, %v", v, x, err)
+			}
+			return
+		}
+		if !isMember(s, x) || max(x/v, v/x) > halfStep(s)*(1+1e-12) {
+			t.Fatalf("%v.Nearest(%g) = %g", s, v, x)
+		}
+		if n, err := s.Neighbours(v); err == nil && !(n.Below < v && v < n.Above) {
+			t.Fatalf("neighbours of %g: %+v", v, n)
+		}
+	})
+}

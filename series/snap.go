@@ -122,7 +122,8 @@ type Snapped struct {
 	// WorstDB is the largest |deviation| in dB of the snapped chain's gain
 	// from the design's over the policy's passband (see DeviationDB);
 	// RoundedDB is the same for every part rounded to its nearest standard
-	// value on its own, for comparison. WorstDB <= RoundedDB always.
+	// value on its own, for comparison (+Inf when that rounding gives an
+	// unstable circuit). WorstDB <= RoundedDB always.
 	WorstDB, RoundedDB float64
 }
 
@@ -232,7 +233,9 @@ func Snap(chain topology.Chain, p Policy) (Snapped, error) {
 	if out.WorstDB, err = DeviationDB(out.Chain, p.Passband); err != nil {
 		return Snapped{}, err
 	}
-	if out.RoundedDB, err = DeviationDB(rounded, p.Passband); err != nil {
+	if out.RoundedDB, err = DeviationDB(rounded, p.Passband); errors.Is(err, errUnstable) {
+		out.RoundedDB = math.Inf(1)
+	} else if err != nil {
 		return Snapped{}, err
 	}
 	return out, nil
@@ -279,6 +282,8 @@ func roundParts(stage int, c topology.Circuit, res, cap Series) ([]float64, erro
 // where H is the chain's response from its parts (Chain.AtHz) and D the
 // design, the product of its circuits' target stages (Circuit.Stage). It is
 // evaluated at GridPoints log-spaced frequencies per band, ends included.
+// A circuit whose parts give an unstable or degenerate stage has no
+// steady-state response: that is an error wrapping ErrChain.
 func DeviationDB(chain topology.Chain, bands []Band) (float64, error) {
 	if len(bands) == 0 {
 		return math.NaN(), fmt.Errorf("series: deviation over no band: %w", ErrPolicy)
@@ -286,6 +291,15 @@ func DeviationDB(chain topology.Chain, bands []Band) (float64, error) {
 	for _, b := range bands {
 		if err := b.validate(); err != nil {
 			return math.NaN(), err
+		}
+	}
+	for i, c := range chain.Circuits {
+		ev, err := newStageEval(c)
+		if err != nil {
+			return math.NaN(), err
+		}
+		if _, err := achieved(c, ev, c.Values()); err != nil {
+			return math.NaN(), fmt.Errorf("series: stage %d: %w", i+1, errUnstable)
 		}
 	}
 	worst := 0.0
@@ -302,6 +316,8 @@ func DeviationDB(chain topology.Chain, bands []Band) (float64, error) {
 	}
 	return worst, nil
 }
+
+var errUnstable = fmt.Errorf("series: the parts give an unstable or degenerate stage: %w", ErrChain)
 
 // candidate is one choice of values for a stage.
 type candidate struct {
@@ -484,9 +500,15 @@ func stageCandidates(i int, c topology.Circuit, p Policy, grid []float64) ([]can
 			return nil, 0, fmt.Errorf("series: stage %d: %w", i+1, err)
 		}
 		out[n].dev = make([]float64, len(grid))
+		_, stable := stageOf(target, b)
 		for j, f := range grid {
 			w := 2 * math.Pi * f
 			out[n].dev[j] = 10*math.Log10(b.power(w*w)) - stageDB(target, f)
+			if !stable {
+				// An unstable circuit has no steady-state response: never
+				// choose it.
+				out[n].dev[j] = math.Inf(1)
+			}
 		}
 	}
 	return out, naive, nil
