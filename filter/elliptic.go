@@ -42,9 +42,8 @@ func (Elliptic) MaxOrder() int { return MaxEllipticOrder }
 // εs² = 10^(AttenDB/10)−1, discrimination k1 = εp/εs; k from
 // n·K'(k)/K(k) = K'(k1)/K(k1) (ellip.Degree); with uᵢ = (2i−1)/n,
 // i = 1…⌊n/2⌋, zeros ±j/(k·cd(uᵢK, k)) and poles j·cd((uᵢ − j·v0)K, k),
-// where v0 = sc⁻¹(1/εp, k1')/(n·K(k1)) is computed as
-// R_F(εp², εp²+k1², εp²+1)/(n·K(k1)) (DLMF 19.25.5 with 22.15 inverse
-// functions); odd n adds the real pole j·cd((1 − j·v0)K, k). Poles and
+// where v0 = sc⁻¹(1/εp, k1')/(n·K(k1)) (ellip.ArcSC, by Carlson's R_F;
+// DLMF 19.25.5 with the inverse functions of 22.15); odd n adds the real pole j·cd((1 − j·v0)K, k). Poles and
 // zeros are in conjugate pairs, positive-imaginary member first, pole
 // pairs by descending Q with the real pole of an odd order last, zero pair
 // i belonging to pole pair i (zeros in ascending frequency). The gain is
@@ -79,7 +78,8 @@ func (e Elliptic) Prototype(n int) (Transfer, error) {
 		return Transfer{}, fmt.Errorf("filter: Elliptic AttenDB %g with RippleDB %g: discrimination out of float64 range: %w", e.AttenDB, e.RippleDB, ErrRange)
 	}
 	k, kc := ellip.Degree(n, k1, k1c)
-	v0 := ellip.RF(ep2, ep2+k1*k1, ep2+1) / (float64(n) * ellip.KComp(k1c))
+	// sn⁻¹(j/εp, k1) = j·sc⁻¹(1/εp, k1'), normalized by n·K(k1).
+	v0 := ellip.ArcSC(1/math.Sqrt(ep2), k1c, k1) / (float64(n) * ellip.KComp(k1c))
 	poles := make([]complex128, 0, n)
 	zeros := make([]complex128, 0, n-n%2)
 	for i := 1; i <= n/2; i++ {
