@@ -13,7 +13,8 @@ var (
 	ErrSystem = errors.New("response: unusable system")
 	// ErrGrid reports a bad frequency, time or level argument: NaN,
 	// infinite, negative (times) or not positive (frequencies, level
-	// drops), or a band whose lower edge is not below its upper edge.
+	// drops), a band whose lower edge is not below its upper edge or that
+	// reaches above MaxSearchHz.
 	ErrGrid = errors.New("response: bad frequency or time argument")
 	// ErrNoCrossing reports that the gain does not cross the requested
 	// level within the band searched.

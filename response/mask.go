@@ -103,7 +103,7 @@ type MaskResult struct {
 // always be the least margin, hiding the slack a designer wants to see.
 //
 // Errors wrap filter.ErrSpec for a spec that fails filter.Spec.Validate,
-// ErrGrid for a region beyond the float64 range, and
+// ErrGrid for an edge above MaxSearchHz, and
 // ErrSystem when the gain of sys is NaN in a region.
 func CheckMask(sys System, spec filter.Spec) (MaskResult, error) {
 	if err := spec.Validate(); err != nil {
@@ -163,7 +163,8 @@ func CheckMask(sys System, spec filter.Spec) (MaskResult, error) {
 }
 
 // below and above extend an edge by MaskSpan towards DC or infinity,
-// staying inside the float64 range.
+// staying inside the float64 range and (above) below MaxSearchHz unless the
+// edge itself is above it (which checkBand then reports).
 func below(edge float64) float64 {
 	if lo := edge / MaskSpan; lo > 0 {
 		return lo
@@ -172,8 +173,5 @@ func below(edge float64) float64 {
 }
 
 func above(edge float64) float64 {
-	if hi := edge * MaskSpan; !math.IsInf(hi, 0) {
-		return hi
-	}
-	return math.MaxFloat64
+	return math.Min(edge*MaskSpan, math.Max(edge, MaxSearchHz))
 }

@@ -29,6 +29,10 @@ const (
 	maxRefine     = 2000
 )
 
+// MaxSearchHz is the highest frequency a search band may reach: 2π·f must
+// stay far inside the float64 range for AtHz.
+const MaxSearchHz = 1e300
+
 // checkBand validates a frequency band [lo, hi] (hertz).
 func checkBand(loName string, lo float64, hiName string, hi float64) error {
 	switch {
@@ -36,6 +40,8 @@ func checkBand(loName string, lo float64, hiName string, hi float64) error {
 		return fmt.Errorf("response: %s %g Hz is not positive and finite: %w", loName, lo, ErrGrid)
 	case math.IsNaN(hi) || math.IsInf(hi, 0):
 		return fmt.Errorf("response: %s %g Hz is not finite: %w", hiName, hi, ErrGrid)
+	case hi > MaxSearchHz:
+		return fmt.Errorf("response: %s %g Hz is above %g Hz: %w", hiName, hi, MaxSearchHz, ErrGrid)
 	case !(hi > lo):
 		return fmt.Errorf("response: %s %g Hz is not above %s %g Hz: %w", hiName, hi, loName, lo, ErrGrid)
 	}

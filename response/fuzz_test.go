@@ -1,0 +1,78 @@
+package response
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/rolloff/rolloff/filter"
+)
+
+// FuzzCrossingHz: any level and band give a crossing inside the band or a
+// matchable error, never a panic.
+func FuzzCrossingHz(f *testing.F) {
+	f.Add(-3.0103, 1.0, 1e5, uint8(4))
+	f.Add(0.0, 1e-3, 1e3, uint8(1))
+	f.Add(-200.0, 1e-300, 1e300, uint8(16))
+	f.Add(math.NaN(), -1.0, math.Inf(1), uint8(0))
+	f.Add(-60.0, 999.0, 1001.0, uint8(9))
+	f.Fuzz(func(t *testing.T, level, lo, hi float64, order uint8) {
+		h := butterworth(int(order%16)+1, 1000)
+		got, err := CrossingHz(h, level, lo, hi)
+		if err != nil {
+			if !errors.Is(err, ErrGrid) && !errors.Is(err, ErrNoCrossing) && !errors.Is(err, ErrSystem) {
+				t.Fatalf("unmatchable error %v", err)
+			}
+			return
+		}
+		if !(got >= lo*(1-1e-12) && got <= hi*(1+1e-12)) {
+			t.Fatalf("crossing %g Hz outside [%g, %g]", got, lo, hi)
+		}
+	})
+}
+
+// FuzzCheckMask: any mask gives a verdict consistent with its margin or a
+// matchable error, never a panic.
+func FuzzCheckMask(f *testing.F) {
+	f.Add(1, 800.0, 0.0, 3000.0, 0.0, 1.0, 40.0)
+	f.Add(2, 1500.0, 0.0, 250.0, 0.0, 1.0, 45.0)
+	f.Add(3, 900.0, 1100.0, 100.0, 10000.0, 1.0, 20.0)
+	f.Add(4, 50.0, 20000.0, 990.0, 1010.0, 1.0, 30.0)
+	f.Add(1, 1e-310, 0.0, 1e308, 0.0, 1e-300, 1e300)
+	f.Add(0, math.NaN(), math.Inf(1), -1.0, 0.0, 3.0, 2.0)
+	f.Fuzz(func(t *testing.T, band int, p0, p1, s0, s1, ripple, atten float64) {
+		spec := filter.Spec{Band: filter.Band(band), PassHz: [2]float64{p0, p1}, StopHz: [2]float64{s0, s1},
+			RippleDB: ripple, AttenDB: atten}
+		r, err := CheckMask(butterworth(5, 1000), spec)
+		if err != nil {
+			if !errors.Is(err, filter.ErrSpec) && !errors.Is(err, ErrGrid) && !errors.Is(err, ErrSystem) {
+				t.Fatalf("unmatchable error %v", err)
+			}
+			return
+		}
+		if math.IsNaN(r.MarginDB) || r.Pass != (r.MarginDB >= 0) || len(r.Regions) < 2 {
+			t.Fatalf("inconsistent result %+v", r)
+		}
+	})
+}
+
+// FuzzStep: any times give a response or a matchable error.
+func FuzzStep(f *testing.F) {
+	f.Add(0.0, 1e-3, 1e300)
+	f.Add(-1.0, math.NaN(), math.Inf(1))
+	f.Fuzz(func(t *testing.T, a, b, c float64) {
+		h := butterworth(6, 1000)
+		y, err := Step(h, []float64{a, b, c})
+		if err != nil {
+			if !errors.Is(err, ErrGrid) {
+				t.Fatalf("unmatchable error %v", err)
+			}
+			return
+		}
+		for i, v := range y {
+			if math.IsNaN(v) {
+				t.Fatalf("NaN step at t = %g", []float64{a, b, c}[i])
+			}
+		}
+	})
+}
