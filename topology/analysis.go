@@ -115,7 +115,9 @@ func (c Circuit) WithValues(values []float64) (Circuit, error) {
 // re-solves the resistors with the kind's own synthesis equations so that
 // the circuit realizes c.Stage again. Where a kind's gain is a capacitor
 // ratio (multiple-feedback highpass, highpass with a capacitive input
-// attenuator) the gain follows the capacitors; f0 and Q are exact.
+// attenuator) or the amplifier gain itself (equal-component Sallen-Key
+// without attenuator: K follows Q and the capacitor ratio) the gain follows
+// the capacitors; f0, Q and a notch's zero are exact.
 //
 // Errors wrap ErrParts (an unknown reference, a resistor, a value not
 // positive and finite) or ErrUnrealizable (e.g. a Sallen-Key lowpass whose

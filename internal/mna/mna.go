@@ -9,7 +9,7 @@ import (
 
 // MaxDim is the largest MNA system a Workspace holds: non-ground nodes plus
 // one for the source plus one per op-amp.
-const MaxDim = 24
+const MaxDim = 20
 
 // Sentinel errors.
 var (
@@ -173,10 +173,16 @@ func (n *Netlist) Degree(a Amp) int {
 // Workspace is the preallocated storage of one MNA solve. The zero value is
 // ready to use. A Workspace is not safe for concurrent use: give each
 // goroutine its own (it is a plain value of about 10 KB; a local variable
-// stays on the stack).
+// stays on the stack, and reusing one saves clearing it per call).
 type Workspace struct {
-	m [MaxDim * MaxDim]complex128
-	b [MaxDim]complex128
+	m   [MaxDim * MaxDim]complex128
+	b   [MaxDim]complex128
+	inv [MaxDim]complex128 // reciprocal pivots
+	// interpolation buffers of Coefficients, kept here so that a reused
+	// Workspace does not clear them on every call
+	pn, pd, zs [MaxDim + 1]complex128
+	v          [(MaxDim + 1) * (MaxDim + 1)]float64
+	rn, rd     [MaxDim + 1]float64
 }
 
 // Transfer returns H(s) = V(Out)/V(In) of n with part values values and
@@ -274,7 +280,8 @@ func (w *Workspace) solve(d, out int) (x, det complex128, err error) {
 		}
 		piv := m[c*d+c]
 		det *= piv
-		inv := 1 / piv
+		inv := recip(piv)
+		w.inv[c] = inv
 		for r := c + 1; r < d; r++ {
 			f := m[r*d+c] * inv
 			if f == 0 {
@@ -293,11 +300,27 @@ func (w *Workspace) solve(d, out int) (x, det complex128, err error) {
 		for j := r + 1; j < d; j++ {
 			v -= m[r*d+j] * b[j]
 		}
-		b[r] = v / m[r*d+r]
+		b[r] = v * w.inv[r]
 	}
 	x = b[out]
 	if cmplx.IsNaN(x) || cmplx.IsInf(x) || cmplx.IsNaN(det) {
 		return 0, 0, ErrSingular
 	}
 	return x, det, nil
+}
+
+// recip returns 1/z by the textbook formula conj(z)/|z|², scaled by the
+// larger component so that |z|² neither overflows nor underflows; faster
+// than the runtime's general complex division and as accurate here
+// (a few ulps).
+func recip(z complex128) complex128 {
+	a, b := real(z), imag(z)
+	if math.Abs(a) >= math.Abs(b) {
+		r := b / a
+		den := a + b*r
+		return complex(1/den, -r/den)
+	}
+	r := a / b
+	den := a*r + b
+	return complex(r/den, -1/den)
 }

@@ -70,8 +70,7 @@ func (w *Workspace) Coefficients(n *Netlist, values []float64, a Amp, radius flo
 	}
 	// Sample points z_k = exp(iθ_k), θ_k from −π/2 to π/2; evaluate the
 	// upper half (θ ≥ 0), the lower half is the conjugate.
-	var pn, pd [MaxDim + 1]complex128
-	var zs [MaxDim + 1]complex128
+	pn, pd, zs := &w.pn, &w.pd, &w.zs
 	for k := range m {
 		theta := 0.0
 		if m > 1 {
@@ -89,8 +88,7 @@ func (w *Workspace) Coefficients(n *Netlist, values []float64, a Amp, radius flo
 	}
 	// Real interpolation system V·c = p: one real row per real sample point,
 	// two (real and imaginary parts) per sample above the real axis.
-	var v [(MaxDim + 1) * (MaxDim + 1)]float64
-	var rn, rd [MaxDim + 1]float64
+	v, rn, rd := &w.v, &w.rn, &w.rd
 	row := 0
 	for k := range m {
 		if imag(zs[k]) < 0 || row >= m {
