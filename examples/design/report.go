@@ -1,0 +1,131 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/rolloff/rolloff/examples/internal/pipeline"
+	"github.com/rolloff/rolloff/filter"
+	"github.com/rolloff/rolloff/series"
+)
+
+// hz formats a frequency in engineering notation ("1.23 kHz").
+func hz(f float64) string { return series.Format{Digits: 4}.Value(f, "Hz") }
+
+// maskLine describes a mask in words.
+func maskLine(m filter.Spec) string {
+	switch m.Band {
+	case filter.Lowpass:
+		return fmt.Sprintf("lowpass: pass 0 to %s within %g dB, stop from %s at least %g dB down",
+			hz(m.PassHz[0]), m.RippleDB, hz(m.StopHz[0]), m.AttenDB)
+	case filter.Highpass:
+		return fmt.Sprintf("highpass: pass from %s within %g dB, stop below %s at least %g dB down",
+			hz(m.PassHz[0]), m.RippleDB, hz(m.StopHz[0]), m.AttenDB)
+	case filter.Bandpass:
+		return fmt.Sprintf("bandpass: pass %s to %s within %g dB, stop below %s and above %s at least %g dB down",
+			hz(m.PassHz[0]), hz(m.PassHz[1]), m.RippleDB, hz(m.StopHz[0]), hz(m.StopHz[1]), m.AttenDB)
+	default:
+		return fmt.Sprintf("bandstop: pass below %s and above %s within %g dB, stop %s to %s at least %g dB down",
+			hz(m.PassHz[0]), hz(m.PassHz[1]), m.RippleDB, hz(m.StopHz[0]), hz(m.StopHz[1]), m.AttenDB)
+	}
+}
+
+// report prints the design to w.
+func report(w io.Writer, r pipeline.Result, dir string, files []string) error {
+	d := r.Doc
+	q := d.Request
+	var b strings.Builder
+	p := func(format string, a ...any) { fmt.Fprintf(&b, format, a...) }
+	title := q.Name
+	if title == "" {
+		title = "filter design"
+	}
+	p("Rolloff: %s\n", title)
+	p("Mask    %s\n", maskLine(q.Mask))
+	p("Policy  resistors %s (%g %%), capacitors %s (%g %%), circuits %s, design margin %g dB, yield target %g %%\n\n",
+		q.ResistorSeries, q.ResistorTolPct, q.CapacitorSeries, q.CapacitorTolPct, q.Kind, *q.MarginDB, q.MinYieldPct)
+
+	p("Candidates, best first (%s):\n", d.Rule)
+	tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "  family\torder\top-amps\tparts\tdeviation dB\tyield %\tmax GBW\t\t")
+	for _, i := range pipeline.Rank(d.Candidates, q.MinYieldPct) {
+		c := d.Candidates[i]
+		if c.Error != "" {
+			fmt.Fprintf(tw, "  %s\t-\t-\t-\t-\t-\t-\t\tnot buildable: %s\n", c.Family, c.Error)
+			continue
+		}
+		mark := ""
+		if c.Family == d.Family {
+			mark = "<- chosen"
+		}
+		fmt.Fprintf(tw, "  %s\t%d\t%d\t%d\t%.3f\t%.1f\t%s\t\t%s\n", c.Family, c.Order, c.OpAmps, c.Parts, c.DeviationDB, c.YieldPct, hz(c.MaxGBWHz), mark)
+	}
+	tw.Flush()
+
+	poles := len(d.Design.Poles)
+	p("\nChosen  %s, order %d (%d poles), %d stages, output %s\n\n", d.Family, d.Order, poles, len(d.Stages), map[bool]string{true: "inverted", false: "not inverted"}[d.Inverting])
+
+	p("Stage table (targets, input first):\n")
+	tw = tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "  stage\tkind\torder\tf0\tQ\tgain\tzero\t")
+	for _, s := range d.Stages {
+		t := s.Target
+		qs, zs := "-", "-"
+		if t.Order == 2 {
+			qs = fmt.Sprintf("%.4f", t.Q)
+		}
+		if t.Kind == filter.NotchStage {
+			zs = hz(t.ZeroHz)
+		}
+		fmt.Fprintf(tw, "  %s\t%v\t%d\t%s\t%s\t%.4f\t%s\t\n", s.Designator, t.Kind, t.Order, hz(t.F0Hz), qs, t.Gain, zs)
+	}
+	tw.Flush()
+
+	p("\nCircuits with snapped parts (%s resistors, %s capacitors; ideal value in brackets):\n", q.ResistorSeries, q.CapacitorSeries)
+	for _, s := range d.Stages {
+		inv := ""
+		if s.Inverting {
+			inv = ", inverting"
+		}
+		p("  %s  %s, %d op-amp(s)%s: f0 %+.2f %%, Q %+.2f %%, gain %+.2f %%\n", s.Designator, s.Circuit, s.OpAmps, inv, s.F0ErrPct, s.QErrPct, s.GainErrPct)
+		var parts []string
+		for _, pt := range s.Parts {
+			unit := "Ω"
+			if strings.HasPrefix(pt.Ref, "C") {
+				unit = "F"
+			}
+			parts = append(parts, fmt.Sprintf("%s %s [%s]", pt.Ref, pt.Display, series.Format{Digits: 4}.Value(pt.IdealValue, unit)))
+		}
+		for len(parts) > 0 {
+			n := min(3, len(parts))
+			p("        %s\n", strings.Join(parts[:n], ", "))
+			parts = parts[n:]
+		}
+	}
+
+	p("\nDeviation after snapping: %.3f dB worst over the passband (each part rounded on its own: %.3f dB)\n", d.DeviationDB, d.RoundedDeviationDB)
+	p("Mask margin: design %.3f dB, snapped chain %.3f dB\n", d.DesignMarginDB, d.SnappedMarginDB)
+
+	p("\nOp-amp gain-bandwidth needed per stage (f0 and Q within %g %%, single-pole op-amp model):\n", 100*pipeline.GBWMaxErr)
+	tw = tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "  stage\tcircuit\tGBW needed\trule of thumb 100·G·Q·f0\t")
+	for _, s := range d.Stages {
+		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t\n", s.Designator, s.Circuit, hz(s.GBWHz), hz(s.RuleOfThumbGBWHz))
+	}
+	tw.Flush()
+
+	mc := d.MonteCarlo
+	p("\nMonte Carlo: %d boards, seed %d, %s tolerances (R %g %%, C %g %%), checked at %d frequencies against the mask:\n",
+		mc.Trials, mc.Seed, mc.Distribution, mc.ResistorTolPct, mc.CapacitorTolPct, mc.Frequencies)
+	p("  yield %.1f %% (%d passed, %d failed to evaluate)\n", mc.YieldPct, mc.Passed, mc.Failed)
+
+	p("\nWrote to %s:\n", dir)
+	for _, f := range files {
+		p("  %s\n", f)
+	}
+	p("\n%s\n", d.Caution)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
