@@ -6,6 +6,8 @@ import (
 	"math/big"
 	"math/cmplx"
 	"testing"
+
+	"pgregory.net/rapid"
 )
 
 // This file measures the float64 prototypes against the same formulas
@@ -347,7 +349,10 @@ func accElliptic(n int, rip, att float64) accRef {
 
 // accCheck compares h with ref (element by element: the reference uses the
 // same ordering) and returns the largest relative error.
-func accCheck(t *testing.T, name string, h Transfer, ref accRef) float64 {
+func accCheck(t interface {
+	Helper()
+	Fatalf(string, ...any)
+}, name string, h Transfer, ref accRef) float64 {
 	t.Helper()
 	if len(h.Poles) != len(ref.poles) || len(h.Zeros) != len(ref.zeros) {
 		t.Fatalf("%s: %d/%d poles, %d/%d zeros", name, len(h.Poles), len(ref.poles), len(h.Zeros), len(ref.zeros))
@@ -483,4 +488,31 @@ func TestAccuracyBessel(t *testing.T) {
 	}
 	t.Logf("Bessel orders 1..%d against %d-bit evaluation: poles %.2g, delay gain %.2g, corner %.2g, |Π p|−1 %.2g",
 		MaxBesselOrder, accPrec, worstPole, worstGain, worstCorner, worstPhase)
+}
+
+// TestAccuracyEllipticRandom samples the whole accepted parameter domain
+// (ripple 1e-4…10 dB, attenuation up to 300 dB, any order to
+// MaxEllipticOrder) against the 200-bit reference; designs refused with
+// ErrRange must really exceed MaxEllipticQ by the reference.
+func TestAccuracyEllipticRandom(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		n := rapid.IntRange(1, MaxEllipticOrder).Draw(t, "n")
+		rip := math.Exp(rapid.Float64Range(math.Log(1e-4), math.Log(10)).Draw(t, "logrip"))
+		att := rip + math.Exp(rapid.Float64Range(math.Log(0.5), math.Log(300)).Draw(t, "logmargin"))
+		ref := accElliptic(n, rip, att)
+		h, err := Elliptic{RippleDB: rip, AttenDB: att}.Prototype(n)
+		if errors.Is(err, ErrRange) {
+			p := ref.poles[0]
+			if q := cmplx.Abs(p) / (-2 * real(p)); n > 1 && q < MaxEllipticQ/2 {
+				t.Fatalf("order %d (%g, %g dB) refused, but the reference Q is %g: %v", n, rip, att, q, err)
+			}
+			return
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		if e := accCheck(t, "", h, ref); e > accTol {
+			t.Fatalf("order %d (%g, %g dB): relative error %.2g", n, rip, att, e)
+		}
+	})
 }
