@@ -516,3 +516,28 @@ func TestAccuracyEllipticRandom(t *testing.T) {
 		}
 	})
 }
+
+// TestAccuracyChebyshevRandom samples ripple 1e-6…30 dB and attenuation
+// 0.1…300 dB at any order to MaxChebyshevOrder against the 200-bit
+// reference, to the documented 1e-13.
+func TestAccuracyChebyshevRandom(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		n := rapid.IntRange(1, MaxChebyshevOrder).Draw(t, "n")
+		rip := math.Exp(rapid.Float64Range(math.Log(1e-6), math.Log(30)).Draw(t, "logrip"))
+		att := math.Exp(rapid.Float64Range(math.Log(0.1), math.Log(300)).Draw(t, "logatt"))
+		h1, err := Chebyshev{RippleDB: rip}.Prototype(n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if e := accCheck(t, "Chebyshev", h1, accChebyshev(n, rip)); e > 1e-13 {
+			t.Fatalf("Chebyshev order %d ripple %g: relative error %.2g", n, rip, e)
+		}
+		h2, err := InverseChebyshev{AttenDB: att}.Prototype(n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if e := accCheck(t, "InverseChebyshev", h2, accInverseChebyshev(n, att)); e > 1e-13 {
+			t.Fatalf("InverseChebyshev order %d atten %g: relative error %.2g", n, att, e)
+		}
+	})
+}
