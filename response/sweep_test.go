@@ -129,3 +129,24 @@ func TestSweepIntoNoAllocs(t *testing.T) {
 		t.Errorf("SweepInto of a black box allocates %g times, want 0", n)
 	}
 }
+
+// TestNumericDelayAccuracy: the black-box delay (Richardson-extrapolated
+// central differences) against the exact delay of a resonant pair whose
+// poles lie at a relative distance d from j2πf0, over 0.5·f0 to 2.5·f0:
+// the error, relative to |τ| + 1/ω, shrinks like d⁻⁶ (observed 2.2e-9 at
+// d = 1 %, 3.4e-11 at 2 %, 5.6e-13 from 5 % on).
+func TestNumericDelayAccuracy(t *testing.T) {
+	for _, c := range []struct{ d, tol float64 }{{0.01, 5e-9}, {0.02, 1e-10}, {0.05, 2e-12}, {0.3, 2e-12}} {
+		const f0 = 1000.0
+		h := filter.Stage{Kind: filter.LowpassStage, Order: 2, F0Hz: f0, Q: 1 / (2 * c.d), Gain: 1}.Transfer()
+		hz := floats.Span(make([]float64, 201), 0.5*f0, 2.5*f0)
+		a, b := Sweep(h, hz), Sweep(blackBox{h}, hz)
+		for i := range a {
+			e := math.Abs(a[i].DelayS-b[i].DelayS) / (math.Abs(a[i].DelayS) + 1/(2*math.Pi*hz[i]))
+			if e > c.tol {
+				t.Errorf("d = %g at %g Hz: numeric delay %.15g s, exact %.15g s (error %.2g > %g)",
+					c.d, hz[i], b[i].DelayS, a[i].DelayS, e, c.tol)
+			}
+		}
+	}
+}
