@@ -81,8 +81,8 @@ func TestInverseChebyshevStopband(t *testing.T) {
 					t.Errorf("atten %g order %d: %.12g dB at lobe peak %g, want −%g", att, n, got, w, att)
 				}
 			}
-			for i := 0; i <= 20000; i++ {
-				w := math.Pow(10, 4*float64(i)/20000) // 1 … 1e4 rad/s
+			for i := 0; i <= 5000; i++ {
+				w := math.Pow(10, 4*float64(i)/5000) // 1 … 1e4 rad/s
 				if got := protoDB(h, w); got > -att+tol(w) {
 					t.Fatalf("atten %g order %d: %.12g dB at %g rad/s, above −%g", att, n, got, w, att)
 				}
