@@ -15,7 +15,7 @@ var (
 	// infinite, negative (times) or not positive (frequencies, level
 	// drops), a band whose lower edge is not below its upper edge or that
 	// reaches above MaxSearchHz.
-	ErrGrid = errors.New("response: bad frequency or time argument")
+	ErrGrid = errors.New("response: bad frequency, time or level argument")
 	// ErrNoCrossing reports that the gain does not cross the requested
 	// level within the band searched.
 	ErrNoCrossing = errors.New("response: no crossing of the level")

@@ -310,12 +310,13 @@ func (sc scan) crossing(level float64, down bool) (hz float64, ok bool, err erro
 // log grid of 400 points a decade (64 to 20000 points in all); a sign change
 // of gain − level between grid points is refined by bisection in log f, and
 // a local gain extremum between grid points that reaches the level is
-// refined first, so a narrow dip or peak through the level is found. A gain
-// that touches the level only tangentially between grid points may be
-// missed.
+// refined first, so a narrow dip or peak through the level is found; for a
+// filter.Transfer the frequencies of its poles and zeros join the grid, so
+// that even a resonance far narrower than the spacing is. A gain that
+// touches the level only tangentially between grid points may be missed.
 //
-// Errors wrap ErrGrid for loHz not positive and finite, hiHz not finite or
-// not above loHz, or levelDB NaN or infinite; ErrSystem when the gain of s is
+// Errors wrap ErrGrid for loHz not positive and finite, hiHz not finite, not
+// above loHz or above MaxSearchHz, or levelDB NaN or infinite; ErrSystem when the gain of s is
 // NaN in the band; ErrNoCrossing when the gain does not reach the level.
 func CrossingHz(s System, levelDB, loHz, hiHz float64) (float64, error) {
 	if math.IsNaN(levelDB) || math.IsInf(levelDB, 0) {

@@ -28,10 +28,12 @@ func Step(h filter.Transfer, t []float64) ([]float64, error) {
 // multiplicities mᵢ, the residues rᵢₖ being the Taylor coefficients of
 // (s − pᵢ)^{mᵢ}·H(s)/s at pᵢ. Poles that are close but not equal (within
 // 10 % of their size) would have large residues that cancel; such a cluster
-// is summed instead as a divided difference expanded about its centroid,
-// which is exact for repeated and nearly repeated poles alike (see the
-// comment on the constants in modal.go). A biproper h (as many zeros as
-// poles) has a step y(0) = Gain. Unstable poles are allowed: the response
+// is summed instead as the divided difference of G(s)·e^{st} over its poles
+// (G the rest of the transfer function), expanded about the cluster's
+// centroid, which is exact for repeated and nearly repeated poles alike;
+// beyond t = 1/r, r the cluster's radius, the separate terms no longer
+// cancel and are used instead. A biproper h (as many zeros as poles) has a
+// step y(0) = Gain. Unstable poles are allowed: the response
 // grows as it should and may overflow to ±Inf at late times.
 //
 // Accuracy: about 1e-14 of the response's peak (SciPy's state-space
