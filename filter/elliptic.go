@@ -43,8 +43,8 @@ func (Elliptic) MaxOrder() int { return MaxEllipticOrder }
 // n·K'(k)/K(k) = K'(k1)/K(k1) (ellip.Degree); with uᵢ = (2i−1)/n,
 // i = 1…⌊n/2⌋, zeros ±j/(k·cd(uᵢK, k)) and poles j·cd((uᵢ − j·v0)K, k),
 // where v0 = sc⁻¹(1/εp, k1')/(n·K(k1)) (ellip.ArcSC, by Carlson's R_F;
-// DLMF 19.25.5 with the inverse functions of 22.15); odd n adds the real pole j·cd((1 − j·v0)K, k). Poles and
-// zeros are in conjugate pairs, positive-imaginary member first, pole
+// DLMF 19.25.5 with the inverse functions of 22.15); odd n adds the real
+// pole j·cd((1 − j·v0)K, k). Poles and zeros are in conjugate pairs, positive-imaginary member first, pole
 // pairs by descending Q with the real pole of an odd order last, zero pair
 // i belonging to pole pair i (zeros in ascending frequency). The gain is
 // H(0)·Π(−p)/Π(−z).
