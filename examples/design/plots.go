@@ -39,6 +39,16 @@ type engTicks struct{}
 
 func (engTicks) Ticks(lo, hi float64) []plot.Tick {
 	ts := plot.LogTicks{Prec: -1}.Ticks(lo, hi)
+	labelled := 0
+	for _, t := range ts {
+		if t.Label != "" && t.Value >= lo && t.Value <= hi {
+			labelled++
+		}
+	}
+	if labelled < 3 {
+		// Less than a decade or so: linear ticks read better.
+		ts = plot.DefaultTicks{}.Ticks(lo, hi)
+	}
 	for i := range ts {
 		if ts[i].Label != "" {
 			ts[i].Label = series.FormatValue(ts[i].Value, "")

@@ -4,9 +4,9 @@ import (
 	"fmt"
 	"io"
 	"strings"
-	"text/tabwriter"
 
 	"github.com/rolloff/rolloff/examples/internal/pipeline"
+	"github.com/rolloff/rolloff/examples/internal/textable"
 	"github.com/rolloff/rolloff/filter"
 	"github.com/rolloff/rolloff/series"
 )
@@ -47,29 +47,29 @@ func report(w io.Writer, r pipeline.Result, dir string, files []string) error {
 	p("Policy  resistors %s (%g %%), capacitors %s (%g %%), circuits %s, design margin %g dB, yield target %g %%\n\n",
 		q.ResistorSeries, q.ResistorTolPct, q.CapacitorSeries, q.CapacitorTolPct, q.Kind, *q.MarginDB, q.MinYieldPct)
 
-	p("Candidates, best first (%s):\n", d.Rule)
-	tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "  family\torder\top-amps\tparts\tdeviation dB\tyield %\tmax GBW\t\t")
+	p("Candidates, best first. Rule: %s.\n", d.Rule)
+	tw := &textable.Table{Indent: "  ", Right: []bool{false, true, true, true, true, true, true}}
+	tw.Row("family", "order", "op-amps", "parts", "deviation dB", "yield %", "max GBW", "")
 	for _, i := range pipeline.Rank(d.Candidates, q.MinYieldPct) {
 		c := d.Candidates[i]
 		if c.Error != "" {
-			fmt.Fprintf(tw, "  %s\t-\t-\t-\t-\t-\t-\t\tnot buildable: %s\n", c.Family, c.Error)
+			tw.Row(c.Family, "-", "-", "-", "-", "-", "-", "not buildable: "+c.Error)
 			continue
 		}
 		mark := ""
 		if c.Family == d.Family {
 			mark = "<- chosen"
 		}
-		fmt.Fprintf(tw, "  %s\t%d\t%d\t%d\t%.3f\t%.1f\t%s\t\t%s\n", c.Family, c.Order, c.OpAmps, c.Parts, c.DeviationDB, c.YieldPct, hz(c.MaxGBWHz), mark)
+		tw.Row(c.Family, fmt.Sprint(c.Order), fmt.Sprint(c.OpAmps), fmt.Sprint(c.Parts), fmt.Sprintf("%.3f", c.DeviationDB), fmt.Sprintf("%.1f", c.YieldPct), hz(c.MaxGBWHz), mark)
 	}
-	tw.Flush()
+	tw.WriteTo(&b)
 
 	poles := len(d.Design.Poles)
 	p("\nChosen  %s, order %d (%d poles), %d stages, output %s\n\n", d.Family, d.Order, poles, len(d.Stages), map[bool]string{true: "inverted", false: "not inverted"}[d.Inverting])
 
 	p("Stage table (targets, input first):\n")
-	tw = tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "  stage\tkind\torder\tf0\tQ\tgain\tzero\t")
+	tw = &textable.Table{Indent: "  ", Right: []bool{false, false, true, true, true, true, true}}
+	tw.Row("stage", "kind", "order", "f0", "Q", "gain", "zero")
 	for _, s := range d.Stages {
 		t := s.Target
 		qs, zs := "-", "-"
@@ -79,9 +79,9 @@ func report(w io.Writer, r pipeline.Result, dir string, files []string) error {
 		if t.Kind == filter.NotchStage {
 			zs = hz(t.ZeroHz)
 		}
-		fmt.Fprintf(tw, "  %s\t%v\t%d\t%s\t%s\t%.4f\t%s\t\n", s.Designator, t.Kind, t.Order, hz(t.F0Hz), qs, t.Gain, zs)
+		tw.Row(s.Designator, t.Kind.String(), fmt.Sprint(t.Order), hz(t.F0Hz), qs, fmt.Sprintf("%.4f", t.Gain), zs)
 	}
-	tw.Flush()
+	tw.WriteTo(&b)
 
 	p("\nCircuits with snapped parts (%s resistors, %s capacitors; ideal value in brackets):\n", q.ResistorSeries, q.CapacitorSeries)
 	for _, s := range d.Stages {
@@ -89,7 +89,11 @@ func report(w io.Writer, r pipeline.Result, dir string, files []string) error {
 		if s.Inverting {
 			inv = ", inverting"
 		}
-		p("  %s  %s, %d op-amp(s)%s: f0 %+.2f %%, Q %+.2f %%, gain %+.2f %%\n", s.Designator, s.Circuit, s.OpAmps, inv, s.F0ErrPct, s.QErrPct, s.GainErrPct)
+		qe := fmt.Sprintf("%+.2f %%", s.QErrPct)
+		if s.Target.Order == 1 {
+			qe = "-"
+		}
+		p("  %s  %s, %d op-amp(s)%s; snapped vs target: f0 %+.2f %%, Q %s, gain %+.2f %%\n", s.Designator, s.Circuit, s.OpAmps, inv, s.F0ErrPct, qe, s.GainErrPct)
 		var parts []string
 		for _, pt := range s.Parts {
 			unit := "Ω"
@@ -108,13 +112,13 @@ func report(w io.Writer, r pipeline.Result, dir string, files []string) error {
 	p("\nDeviation after snapping: %.3f dB worst over the passband (each part rounded on its own: %.3f dB)\n", d.DeviationDB, d.RoundedDeviationDB)
 	p("Mask margin: design %.3f dB, snapped chain %.3f dB\n", d.DesignMarginDB, d.SnappedMarginDB)
 
-	p("\nOp-amp gain-bandwidth needed per stage (f0 and Q within %g %%, single-pole op-amp model):\n", 100*pipeline.GBWMaxErr)
-	tw = tabwriter.NewWriter(&b, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "  stage\tcircuit\tGBW needed\trule of thumb 100·G·Q·f0\t")
+	p("\nOp-amp gain-bandwidth needed per stage (f0 and Q within %g %%, single-pole op-amp model;\n  rule of thumb 100·max(1, |gain|)·max(1, Q)·f0 beside it):\n", 100*pipeline.GBWMaxErr)
+	tw = &textable.Table{Indent: "  ", Right: []bool{false, false, true, true}}
+	tw.Row("stage", "circuit", "GBW needed", "rule of thumb")
 	for _, s := range d.Stages {
-		fmt.Fprintf(tw, "  %s\t%s\t%s\t%s\t\n", s.Designator, s.Circuit, hz(s.GBWHz), hz(s.RuleOfThumbGBWHz))
+		tw.Row(s.Designator, s.Circuit, hz(s.GBWHz), hz(s.RuleOfThumbGBWHz))
 	}
-	tw.Flush()
+	tw.WriteTo(&b)
 
 	mc := d.MonteCarlo
 	p("\nMonte Carlo: %d boards, seed %d, %s tolerances (R %g %%, C %g %%), checked at %d frequencies against the mask:\n",

@@ -42,6 +42,10 @@ var EnvelopePercentiles = []float64{0.5, 50, 99.5}
 // Monte Carlo run (the mask's edges are added to them).
 const analysisPoints = 200
 
+// passbandPoints is the number of extra analysis frequencies across each
+// band of the passband.
+const passbandPoints = 48
+
 // Run designs req with every family it lists and returns the best result
 // by Rule, whose Document lists every candidate. req is resolved first
 // (Request.Resolve); a bad request is a *FieldError wrapping ErrRequest,
@@ -364,11 +368,18 @@ func PlotRange(m filter.Spec) (loHz, hiHz float64) {
 }
 
 // AnalysisHz returns the Monte Carlo analysis frequencies for mask m:
-// analysisPoints log-spaced over PlotRange, with the mask's edges added,
-// ascending and without duplicates.
+// analysisPoints log-spaced over PlotRange, passbandPoints more across
+// each band of the passband (series.PassbandOf), so that a narrow passband
+// is sampled as finely as a wide one, and the mask's edges, ascending and
+// without duplicates.
 func AnalysisHz(m filter.Spec) []float64 {
 	lo, hi := PlotRange(m)
 	hz := floats.LogSpan(make([]float64, analysisPoints), lo, hi)
+	if bands, err := series.PassbandOf(m); err == nil {
+		for _, b := range bands {
+			hz = append(hz, floats.LogSpan(make([]float64, passbandPoints), b.LoHz, b.HiHz)...)
+		}
+	}
 	edges := []float64{m.PassHz[0], m.StopHz[0]}
 	if m.Band == filter.Bandpass || m.Band == filter.Bandstop {
 		edges = append(edges, m.PassHz[1], m.StopHz[1])
