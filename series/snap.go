@@ -214,11 +214,7 @@ func buildSnapped(chain topology.Chain, p Policy, cands [][]candidate, choice []
 		if err != nil {
 			return Snapped{}, fmt.Errorf("series: snap stage %d: %w", i+1, err)
 		}
-		ev, err := newStageEval(sc)
-		if err != nil {
-			return Snapped{}, err
-		}
-		ach, err := achieved(sc, ev, cd.values)
+		ach, err := sc.Achieved()
 		if err != nil {
 			return Snapped{}, fmt.Errorf("series: snap stage %d: %w", i+1, err)
 		}
@@ -316,12 +312,10 @@ func DeviationDB(chain topology.Chain, bands []Band) (float64, error) {
 		}
 	}
 	for i, c := range chain.Circuits {
-		ev, err := newStageEval(c)
-		if err != nil {
-			return math.NaN(), err
-		}
-		if _, err := achieved(c, ev, c.Values()); err != nil {
-			return math.NaN(), fmt.Errorf("series: stage %d: %w", i+1, errUnstable)
+		if _, err := c.Achieved(); errors.Is(err, topology.ErrUnrealizable) {
+			return math.NaN(), fmt.Errorf("series: stage %d: %v: %w", i+1, err, errUnstable)
+		} else if err != nil {
+			return math.NaN(), fmt.Errorf("series: stage %d: %w", i+1, err)
 		}
 	}
 	worst := 0.0

@@ -12,8 +12,8 @@ import (
 // StageWorst is the linear worst case of one stage: the largest relative
 // deviations of its pole frequency, Q and gain when every part sits at the
 // end of its tolerance that hurts most, Σ|S|·tol over the parts, where S is
-// the part's normalized sensitivity ((∂y/y)/(∂x/x), from the circuit model,
-// as topology's Circuit.Sensitivities defines it). ZeroHz is for notches.
+// the part's normalized sensitivity ((∂y/y)/(∂x/x), from the circuit model:
+// topology's Circuit.Sensitivities). ZeroHz is for notches.
 type StageWorst struct {
 	F0, Q, Gain, ZeroHz float64
 }
@@ -115,7 +115,7 @@ func (m Analysis) WorstCase(chain topology.Chain) (WorstCase, error) {
 	var out WorstCase
 	n := 0
 	for i, c := range chain.Circuits {
-		sens, err := sensitivities(c)
+		sens, err := c.Sensitivities()
 		if err != nil {
 			return WorstCase{}, fmt.Errorf("series: stage %d sensitivities: %w", i+1, err)
 		}
