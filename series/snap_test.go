@@ -301,4 +301,3 @@ func achieved(c topology.Circuit, ev evalFunc, values []float64) (filter.Stage, 
 	}
 	return st, nil
 }
-
