@@ -177,3 +177,35 @@ func TestPropCheckMaskButterworth(t *testing.T) {
 }
 
 var maskSpecForBench = filter.Spec{Band: filter.Lowpass, PassHz: [2]float64{800}, StopHz: [2]float64{3000}, RippleDB: 1, AttenDB: 60}
+
+// TestCheckMaskDesignPerturbed: an elliptic filter.Design result for an
+// invented 48 kHz audio ADC mask passes; multiplied by a parasitic
+// resonance of +35 dB, 1/1000 of the grid spacing wide, centred between two
+// grid points deep in the stopband, it must fail there.
+func TestCheckMaskDesignPerturbed(t *testing.T) {
+	spec := filter.Spec{Band: filter.Lowpass, PassHz: [2]float64{20000}, StopHz: [2]float64{24000}, RippleDB: 0.1, AttenDB: 70}
+	h, err := filter.Design(filter.Elliptic{}, spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := CheckMask(h, spec)
+	if err != nil || !r.Pass {
+		t.Fatalf("design fails its own mask: %+v, %v", r, err)
+	}
+	step := math.Pow(10, 1.0/400)
+	fb := 24000 * math.Pow(step, 250.5)
+	base := gainDB(h.AtHz(fb))
+	q2 := 4e6
+	bad := times(h, bumpTransfer(fb, q2/math.Pow(10, 35.0/20), q2))
+	r, err = CheckMask(bad, spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := -70 - (base + 35) + MaskTolDB
+	if base+35 < -70 {
+		t.Fatalf("test setup: the perturbed gain %g dB does not break the mask", base+35)
+	}
+	if r.Pass || r.Worst != Stopband || math.Abs(r.WorstHz-fb) > 1e-9*fb || math.Abs(r.MarginDB-want) > 0.01 {
+		t.Errorf("perturbed design: %+v, want failure %.4g dB at %.8g Hz", r, want, fb)
+	}
+}

@@ -156,13 +156,13 @@ func newModal(h filter.Transfer, step bool) (modal, error) {
 	// Clusters in order of their first member; atoms of each cluster.
 	clusterOf := make([]int, len(P))
 	var clusters [][]int
-	id := map[int]int{}
+	id := make([]int, len(P)) // cluster number of each root of the union-find, plus 1
 	for i := range P {
 		r := find(i)
-		k, ok := id[r]
-		if !ok {
+		k := id[r] - 1
+		if k < 0 {
 			k = len(clusters)
-			id[r] = k
+			id[r] = k + 1
 			clusters = append(clusters, nil)
 		}
 		clusters[k] = append(clusters[k], i)
