@@ -212,6 +212,9 @@ func (m Analysis) MonteCarlo(chain topology.Chain) (Spread, error) {
 				ref = max(ref, out.DesignDB[j])
 			}
 		}
+		if math.IsInf(ref, -1) {
+			return Spread{}, fmt.Errorf("series: Monte Carlo: no analysis frequency in the Spec's passband (PassHz %v): %w", s.PassHz, ErrPolicy)
+		}
 		for j, f := range m.Hz {
 			switch {
 			case inPass(*s, f):

@@ -48,6 +48,40 @@ func TestMonteCarloDeterministicAcrossWorkers(t *testing.T) {
 	}
 }
 
+// TestMonteCarloDeterminismProperty: any seed, trial count (across block
+// boundaries) and worker count give the same bits as one worker, and the
+// percentile envelopes are ordered.
+func TestMonteCarloDeterminismProperty(t *testing.T) {
+	ch := antiAlias(t)
+	rapid.Check(t, func(t *rapid.T) {
+		a := Analysis{Trials: rapid.IntRange(1, 300).Draw(t, "trials"), Seed: rapid.Uint64().Draw(t, "seed"),
+			Dist: rapid.SampledFrom([]Distribution{Uniform, Normal}).Draw(t, "dist"),
+			Hz: logGrid(1e3, 60e3, 7), Moments: true, Percentiles: []float64{5, 50, 95},
+			Band: &Deviation{LoHz: 1e3, HiHz: 20e3, DB: 0.3}, Tolerances: Tolerances{Resistor: 0.01, Capacitor: 0.05}}
+		a.Workers = 1
+		ref, err := a.MonteCarlo(ch)
+		if err != nil {
+			t.Fatal(err)
+		}
+		a.Workers = rapid.IntRange(2, 8).Draw(t, "workers")
+		got, err := a.MonteCarlo(ch)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if diff := cmp.Diff(ref, got, cmp.Comparer(func(x, y float64) bool {
+			return math.Float64bits(x) == math.Float64bits(y)
+		})); diff != "" {
+			t.Fatalf("%d workers differ from 1:\n%s", a.Workers, diff)
+		}
+		for j := range a.Hz {
+			e := ref.EnvelopeDB
+			if !(e[0][j] <= e[1][j] && e[1][j] <= e[2][j]) {
+				t.Fatalf("envelope at %g Hz not ordered: %g %g %g", a.Hz[j], e[0][j], e[1][j], e[2][j])
+			}
+		}
+	})
+}
+
 // butterworthSpec returns a lowpass mask that n-th order Butterworth stages
 // at fc meet with room to spare: the ripple and attenuation are the
 // closed-form Butterworth gain at the edges, 10·log10(1 + (f/fc)^(2n)), with
@@ -225,6 +259,10 @@ func TestAnalysisErrors(t *testing.T) {
 		} else if !errors.Is(err, ErrPolicy) && !errors.Is(err, filter.ErrSpec) {
 			t.Errorf("case %d: %v", i, err)
 		}
+	}
+	lp := filter.Spec{Band: filter.Lowpass, PassHz: [2]float64{1e3}, StopHz: [2]float64{5e3}, RippleDB: 1, AttenDB: 20}
+	if _, err := (Analysis{Hz: []float64{1e4}, Spec: &lp, Tolerances: Tolerances{Override: true}}).MonteCarlo(ch); !errors.Is(err, ErrPolicy) {
+		t.Errorf("no passband frequency: %v", err)
 	}
 	if _, err := (Analysis{Hz: []float64{1}}).MonteCarlo(topology.Chain{}); !errors.Is(err, ErrChain) {
 		t.Errorf("empty chain: %v", err)
