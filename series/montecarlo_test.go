@@ -56,7 +56,7 @@ func TestMonteCarloDeterminismProperty(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		a := Analysis{Trials: rapid.IntRange(1, 300).Draw(t, "trials"), Seed: rapid.Uint64().Draw(t, "seed"),
 			Dist: rapid.SampledFrom([]Distribution{Uniform, Normal}).Draw(t, "dist"),
-			Hz: logGrid(1e3, 60e3, 7), Moments: true, Percentiles: []float64{5, 50, 95},
+			Hz:   logGrid(1e3, 60e3, 7), Moments: true, Percentiles: []float64{5, 50, 95},
 			Band: &Deviation{LoHz: 1e3, HiHz: 20e3, DB: 0.3}, Tolerances: Tolerances{Resistor: 0.01, Capacitor: 0.05}}
 		a.Workers = 1
 		ref, err := a.MonteCarlo(ch)
