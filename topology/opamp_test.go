@@ -105,3 +105,42 @@ func TestAtHzWithBadOpAmp(t *testing.T) {
 		t.Errorf("negative GBW: %v", err)
 	}
 }
+
+// TestPolesZerosWithMatchesAtHzWith: the factored non-ideal transfer
+// (interpolated rational function of degree up to caps + op-amps, roots by
+// internal/poly) equals the direct non-ideal nodal analysis, for every kind.
+func TestPolesZerosWithMatchesAtHzWith(t *testing.T) {
+	op := OpAmp{GBWHz: 1e6, DCGain: 2e5, ROutOhm: 40}
+	for _, k := range allKinds {
+		for _, sk := range support[k] {
+			st := filter.Stage{Kind: sk.kind, Order: sk.order, F0Hz: 3e3, Gain: 1}
+			if sk.order == 2 {
+				st.Q = 1.5
+			}
+			if sk.kind == filter.NotchStage {
+				st.ZeroHz = 2e3
+			}
+			if k == SallenKeyEqual {
+				st.Gain = 1.5
+			}
+			c, err := RealizeStage(st, Options{Kind: k})
+			if err != nil {
+				t.Fatal(err)
+			}
+			z, p, g, err := c.PolesZerosWith(op)
+			if err != nil {
+				t.Fatalf("%v %v: %v", k, sk.kind, err)
+			}
+			if len(p) <= sk.order {
+				t.Errorf("%v %v: %d poles, the op-amp poles are missing", k, sk.kind, len(p))
+			}
+			h := filter.Transfer{Zeros: z, Poles: p, Gain: g}
+			for _, f := range []float64{30, 1e3, 3e3, 1e4, 3e5} {
+				want := c.AtHzWith(op, f)
+				if e := relDiff(h.AtHz(f), want); e > exact {
+					t.Errorf("%v %v at %g Hz: factored %v, direct %v (rel %g)", k, sk.kind, f, h.AtHz(f), want, e)
+				}
+			}
+		}
+	}
+}

@@ -65,6 +65,50 @@ func (w *Workspace) Coefficients(n *Netlist, values []float64, a Amp, radius flo
 	if len(num) != m || m < n.Degree(a)+1 || m > MaxDim+1 {
 		return ErrDegree
 	}
+	if err := w.scaled(n, values, a, radius, m); err != nil {
+		return err
+	}
+	rn, rd := &w.rn, &w.rd
+	// Zero the rounding-level coefficients, undo the scaling s = r·z, and
+	// make den monic.
+	clean := func(c []float64) {
+		big := 0.0
+		for _, x := range c {
+			big = math.Max(big, math.Abs(x))
+		}
+		for j, x := range c {
+			if math.Abs(x) < CoefTol*big {
+				c[j] = 0
+			}
+		}
+	}
+	clean(rn[:m])
+	clean(rd[:m])
+	lead := -1
+	for j := m - 1; j >= 0; j-- {
+		if rd[j] != 0 {
+			lead = j
+			break
+		}
+	}
+	if lead < 0 {
+		return fmt.Errorf("mna: denominator is identically zero: %w", ErrDegree)
+	}
+	// Divide by rd[lead]·r^lead and scale coefficient j by r^(lead−j)
+	// without forming large powers: c_j/r^j / (d_lead/r^lead).
+	for j := range m {
+		sc := math.Pow(radius, float64(lead-j)) / rd[lead]
+		num[j] = rn[j] * sc
+		den[j] = rd[j] * sc
+	}
+	den[lead] = 1 // exactly, not rd·(1/rd)
+	return nil
+}
+
+// scaled leaves in w.rn and w.rd the coefficients of the Cramer numerator
+// and of det(M) in the scaled variable z = s/radius (c_j·radius^j), from m
+// samples on the right half of the circle |s| = radius.
+func (w *Workspace) scaled(n *Netlist, values []float64, a Amp, radius float64, m int) error {
 	if !(radius > 0) || math.IsInf(radius, 0) {
 		return ErrValue
 	}
@@ -114,39 +158,6 @@ func (w *Workspace) Coefficients(n *Netlist, values []float64, a Amp, radius flo
 	if err := solveReal(v[:m*m], rn[:m], rd[:m], m); err != nil {
 		return err
 	}
-	// Zero the rounding-level coefficients, undo the scaling s = r·z, and
-	// make den monic.
-	clean := func(c []float64) {
-		big := 0.0
-		for _, x := range c {
-			big = math.Max(big, math.Abs(x))
-		}
-		for j, x := range c {
-			if math.Abs(x) < CoefTol*big {
-				c[j] = 0
-			}
-		}
-	}
-	clean(rn[:m])
-	clean(rd[:m])
-	lead := -1
-	for j := m - 1; j >= 0; j-- {
-		if rd[j] != 0 {
-			lead = j
-			break
-		}
-	}
-	if lead < 0 {
-		return fmt.Errorf("mna: denominator is identically zero: %w", ErrDegree)
-	}
-	// Divide by rd[lead]·r^lead and scale coefficient j by r^(lead−j)
-	// without forming large powers: c_j/r^j / (d_lead/r^lead).
-	for j := range m {
-		sc := math.Pow(radius, float64(lead-j)) / rd[lead]
-		num[j] = rn[j] * sc
-		den[j] = rd[j] * sc
-	}
-	den[lead] = 1 // exactly, not rd·(1/rd)
 	return nil
 }
 
@@ -201,7 +212,15 @@ type Rational struct {
 }
 
 // RationalOf returns the transfer of n with values and op-amp model a as a
-// Rational, sampled at radius (0: RadiusOf). See Coefficients.
+// Rational. Where Coefficients samples one circle, RationalOf samples 13,
+// of radii r·10^k for k = −6..6 (r = radius, or RadiusOf when radius is 0),
+// and takes each coefficient from the circle on which its term c_j·s^j is
+// largest relative to the others, so that coefficients spread over many
+// decades (the op-amp poles of a non-ideal circuit lie far above the stage
+// poles, the DC-gain pole far below) are all recovered to near rounding
+// level, and the rational function is accurate far from r too. A
+// coefficient that stands below CoefTol of the largest term on every circle
+// is set to zero (structural zeros come out exact).
 func RationalOf(n *Netlist, values []float64, a Amp, radius float64) (Rational, error) {
 	if err := n.Check(len(values)); err != nil {
 		return Rational{}, err
@@ -215,13 +234,70 @@ func RationalOf(n *Netlist, values []float64, a Amp, radius float64) (Rational, 
 	if radius == 0 {
 		radius = RadiusOf(n, values)
 	}
+	if !(radius > 0) || math.IsInf(radius, 0) {
+		return Rational{}, fmt.Errorf("mna: radius %g: %w", radius, ErrValue)
+	}
 	m := n.Degree(a) + 1
 	num, den := make([]float64, m), make([]float64, m)
+	qn, qd := make([]float64, m), make([]float64, m)
 	var w Workspace
-	if err := w.Coefficients(n, values, a, radius, num, den); err != nil {
-		return Rational{}, err
+	ok := false
+	for k := -6; k <= 6; k++ {
+		r := radius * math.Pow(10, float64(k))
+		if err := w.scaled(n, values, a, r, m); err != nil {
+			if k == 0 {
+				return Rational{}, err
+			}
+			continue // a circle through a singular point: the others serve
+		}
+		ok = true
+		maxAbs := func(sc []float64) float64 {
+			big := 0.0
+			for _, x := range sc {
+				big = math.Max(big, math.Abs(x))
+			}
+			return big
+		}
+		bd := maxAbs(w.rd[:m])
+		bn := math.Max(maxAbs(w.rn[:m]), bd)
+		pick := func(sc []float64, big float64, c, q []float64) {
+			if big == 0 {
+				return
+			}
+			for j, x := range sc {
+				if qual := math.Abs(x) / big; qual > q[j] {
+					q[j] = qual
+					c[j] = x / math.Pow(r, float64(j))
+				}
+			}
+		}
+		pick(w.rn[:m], bn, num, qn)
+		pick(w.rd[:m], bd, den, qd)
 	}
-	return Rational{Num: trim(num), Den: trim(den)}, nil
+	if !ok {
+		return Rational{}, ErrSingular
+	}
+	for j := range m {
+		if qn[j] < CoefTol {
+			num[j] = 0
+		}
+		if qd[j] < CoefTol {
+			den[j] = 0
+		}
+	}
+	num, den = trim(num), trim(den)
+	lead := den[len(den)-1]
+	if lead == 0 {
+		return Rational{}, fmt.Errorf("mna: denominator is identically zero: %w", ErrDegree)
+	}
+	for j := range num {
+		num[j] /= lead
+	}
+	for j := range den {
+		den[j] /= lead
+	}
+	den[len(den)-1] = 1
+	return Rational{Num: num, Den: den}, nil
 }
 
 func trim(c []float64) []float64 {
