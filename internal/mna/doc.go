@@ -28,6 +28,9 @@
 // the whole circle of a discrete Fourier transform, because the poles of a
 // stable circuit lie in the left half-plane: a sample point can never fall
 // on a pole, whatever the circuit's Q. Choosing r near the circuit's natural
-// frequencies (RadiusOf) keeps the interpolation well conditioned. Roots
-// gives poles and zeros from the coefficients.
+// frequencies (RadiusOf) keeps the interpolation well conditioned.
+// RationalOf repeats this on circles of radii spread over twelve decades and
+// keeps each coefficient from the circle where its term dominates, so that
+// the far-away op-amp poles of a non-ideal circuit are recovered as well as
+// the stage's. Roots gives poles and zeros from the coefficients.
 package mna
