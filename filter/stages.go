@@ -371,7 +371,10 @@ func peakMag(h Transfer, f func(w float64) float64) float64 {
 		pts = append(pts, lo*math.Pow(hi/lo, float64(i)/float64(nGrid-1)))
 	}
 	slices.Sort(pts)
-	pts = slices.Compact(pts)
+	// Drop near-duplicates (a pole point equal to a grid point up to
+	// rounding), which would otherwise make a bracket too narrow to hold
+	// the maximum beside them.
+	pts = slices.CompactFunc(pts, func(a, b float64) bool { return math.Abs(a-b) <= 1e-9*math.Max(a, b) })
 	vals := make([]float64, len(pts))
 	best := f(0)
 	// The limit at infinity: the product of the stages' gains at infinity.

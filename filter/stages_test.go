@@ -291,3 +291,29 @@ func BenchmarkStages(b *testing.B) {
 		}
 	}
 }
+
+// TestStagesPeakBesideAPolePoint is a regression: a grid point equal (up
+// to rounding) to a pole frequency once made the peak search bracket too
+// narrow, so the second stage's output peaked 3.5e-5 above the final.
+func TestStagesPeakBesideAPolePoint(t *testing.T) {
+	f := math.Exp(7)
+	s := Spec{Band: Bandpass, RippleDB: math.Exp(-4.125), AttenDB: math.Exp(-4.125) + 27.875}
+	s.PassHz = [2]float64{f, f * math.Exp(0.5015759468078613)}
+	s.StopHz = [2]float64{f / math.Exp(1.6094379124341003), s.PassHz[1] * math.Exp(0.13976194237515863)}
+	h, err := Design(InverseChebyshev{}, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	stages, err := h.Stages()
+	if err != nil {
+		t.Fatal(err)
+	}
+	grid := denseSpan(h)
+	for k := 1; k < len(stages); k++ {
+		for _, fr := range grid {
+			if m := cmplx.Abs(cascade(stages, k, fr)); m > 1+stagePeakTol {
+				t.Fatalf("output of stage %d reaches %.12g at %g Hz", k, m, fr)
+			}
+		}
+	}
+}
