@@ -161,6 +161,9 @@ func evaluate(req Request, p policy, fam string) (Result, error) {
 		return r, err
 	}
 	h.Gain *= p.gainScale
+	if len(h.Zeros) == 0 {
+		h.Zeros = nil // as the JSON encoding reads an empty list back
+	}
 	stages, err := h.StagesWith(filter.StageOptions{Gain: filter.GainLast})
 	if err != nil {
 		return r, err
@@ -374,10 +377,12 @@ func PlotRange(m filter.Spec) (loHz, hiHz float64) {
 // without duplicates.
 func AnalysisHz(m filter.Spec) []float64 {
 	lo, hi := PlotRange(m)
-	hz := floats.LogSpan(make([]float64, analysisPoints), lo, hi)
+	hz := logSpan(analysisPoints, lo, hi)
 	if bands, err := series.PassbandOf(m); err == nil {
 		for _, b := range bands {
-			hz = append(hz, floats.LogSpan(make([]float64, passbandPoints), b.LoHz, b.HiHz)...)
+			if b0, b1 := max(b.LoHz, lo), min(b.HiHz, hi); b0 < b1 {
+				hz = append(hz, logSpan(passbandPoints, b0, b1)...)
+			}
 		}
 	}
 	edges := []float64{m.PassHz[0], m.StopHz[0]}
@@ -387,4 +392,11 @@ func AnalysisHz(m filter.Spec) []float64 {
 	hz = append(hz, edges...)
 	slices.Sort(hz)
 	return slices.Compact(hz)
+}
+
+// logSpan is floats.LogSpan with both ends exactly as given.
+func logSpan(n int, lo, hi float64) []float64 {
+	hz := floats.LogSpan(make([]float64, n), lo, hi)
+	hz[0], hz[n-1] = lo, hi
+	return hz
 }

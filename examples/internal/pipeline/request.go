@@ -303,13 +303,13 @@ func jsonFieldErr(err error, prefix string) error {
 	var syn *json.SyntaxError
 	var typ *json.UnmarshalTypeError
 	switch {
+	case errors.Is(err, filter.ErrFormat):
+		// filter.Spec's own decoder: its message names the mask's field.
+		return fieldErr(join("mask"), err)
 	case errors.As(err, &syn):
 		return fieldErr(join(""), fmt.Errorf("malformed JSON at byte %d: %w", syn.Offset, err))
 	case errors.As(err, &typ):
 		return fieldErr(join(typ.Field), fmt.Errorf("wrong type: %s where %s is expected", typ.Value, typ.Type))
-	case errors.Is(err, filter.ErrFormat):
-		// filter.Spec's own decoder: its message names the mask's field.
-		return fieldErr(join("mask"), err)
 	case errors.Is(err, io.EOF):
 		return fieldErr(join(""), errors.New("empty body: a JSON request document is required"))
 	case errors.Is(err, io.ErrUnexpectedEOF):
