@@ -399,3 +399,44 @@ func FuzzDesign(f *testing.F) {
 		}
 	})
 }
+
+// shiftedButterworth is a family defined outside the package's own set:
+// Butterworth prototypes with the 1 dB point (not the 3 dB point) at
+// 1 rad/s.
+type shiftedButterworth struct{}
+
+func (shiftedButterworth) String() string { return "shiftedButterworth" }
+func (shiftedButterworth) Prototype(n int) (Transfer, error) {
+	h, err := Butterworth{}.Prototype(n)
+	if err != nil {
+		return Transfer{}, err
+	}
+	// |H|² = 1/(1 + Ω^2n) is 1 dB down at Ω = (10^0.1 − 1)^(1/2n).
+	return h.scale(math.Pow(dbPowM1(1), -1/float64(2*n)))
+}
+
+// TestDesignOutsideFamily: a family from outside the package is searched
+// order by order with its passband edge taken at 1 rad/s, and gives the
+// same order as the Butterworth family for a 1 dB mask.
+func TestDesignOutsideFamily(t *testing.T) {
+	s := Spec{Band: Highpass, PassHz: [2]float64{2000}, StopHz: [2]float64{700}, RippleDB: 1, AttenDB: 45}
+	got, err := MinOrder(shiftedButterworth{}, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := MinOrder(Butterworth{}, s)
+	if err != nil || got != want {
+		t.Fatalf("outside family order %d, Butterworth %d (%v)", got, want, err)
+	}
+	h, err := Design(shiftedButterworth{}, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a := -20 * math.Log10(cmplx.Abs(h.AtHz(2000))); math.Abs(a-1) > edgeTolDB {
+		t.Errorf("attenuation %g dB at the passband edge, want 1", a)
+	}
+	far := Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{1001}, RippleDB: 1, AttenDB: 60}
+	if _, err := MinOrder(shiftedButterworth{}, far); !errors.Is(err, ErrRange) {
+		t.Errorf("unreachable mask: %v, want ErrRange", err)
+	}
+}
