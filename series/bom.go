@@ -60,7 +60,8 @@ func KindOf(ref string) (PartKind, error) {
 
 // Designator returns the chain-unique designator of part ref of the stage
 // at index stage (counted from 0 at the chain's input): "U1.R1" for the
-// first stage's R1. U<n> is the n-th stage, its op-amp circuit.
+// first stage's R1. U<n> is the n-th stage, its op-amp circuit; the SPICE
+// deck topology writes names the same part "R1_s1".
 func Designator(stage int, ref string) string {
 	return "U" + strconv.Itoa(stage+1) + "." + ref
 }
@@ -93,7 +94,7 @@ func seriesOf(v float64, prefer Series) Series {
 	if isValue(prefer, v) {
 		return prefer
 	}
-	for _, s := range All {
+	for _, s := range allSeries {
 		if isValue(s, v) {
 			return s
 		}
@@ -165,9 +166,10 @@ func sortedKeys(m map[string]float64) []string {
 }
 
 // Items lists the parts of chain as Items, with chain-unique designators
-// (see Designator), in chain order. Each value's series is res (resistors)
-// or capacitor series cap when the value is one of theirs, else the
-// coarsest IEC 60063 series holding it, else none; tolerances come from tol.
+// (see Designator), in chain order. Each value's series is res (for
+// resistors) or cap (for capacitors) when the value is one of theirs, else
+// the coarsest IEC 60063 series holding it, else none; tolerances come from
+// tol.
 // A part whose designator is neither R nor C, or whose value is not
 // positive and finite, is an error wrapping ErrChain.
 func Items(chain topology.Chain, res, cap Series, tol Tolerances) ([]Item, error) {
@@ -251,9 +253,9 @@ func BOM(items []Item) []Line {
 var CSVHeader = []string{"kind", "value", "display", "code", "series", "tolerance", "count", "refs"}
 
 // WriteCSV writes lines as CSV (encoding/csv, RFC 4180), a CSVHeader row
-// first, in the order given (BOM's order is deterministic). Values are
-// printed with as many figures as needed to read back exactly; display and
-// code use 4 significant figures when 3 would not show the value exactly.
+// first, in the order given (BOM's order is deterministic). The value column
+// reads back exactly; display and code use 3 significant figures, or as many
+// more as the value needs to be shown exactly ("1.234 kΩ").
 func WriteCSV(w io.Writer, lines []Line) error {
 	cw := csv.NewWriter(w)
 	if err := cw.Write(CSVHeader); err != nil {

@@ -14,5 +14,6 @@
 // Designators: the parts of a chain are numbered per stage by topology (R1 in
 // stage 1 and R1 in stage 2). This package makes them unique across the chain
 // by prefixing the stage number, "U1.R1", "U2.R1": U<n> is the n-th stage of
-// the chain, counted from 1 at the input.
+// the chain, counted from 1 at the input. In the SPICE deck topology writes,
+// the same part is named "R1_s1", "R1_s2".
 package series

@@ -66,10 +66,12 @@ type Spread struct {
 	// with its parts as given, DesignDB the design's.
 	Hz, NominalDB, DesignDB []float64
 	// MeanDB and StdDB (sample standard deviation) of the gain per
-	// frequency, over the trials that could be evaluated (Moments).
+	// frequency, over the trials that could be evaluated; nil unless
+	// Moments was asked for.
 	MeanDB, StdDB []float64
 	// EnvelopeDB[i][j] is the Percentiles[i]-th percentile of the gain at
-	// Hz[j] (linear interpolation between order statistics).
+	// Hz[j] over the trials that could be evaluated (linear interpolation
+	// between order statistics); nil without Percentiles.
 	Percentiles []float64
 	EnvelopeDB  [][]float64
 }

@@ -88,8 +88,12 @@ var tables = [...]table{
 		866, 876, 887, 898, 909, 920, 931, 942, 953, 965, 976, 988}},
 }
 
-// All lists the series of IEC 60063, coarsest first.
+// All lists the series of IEC 60063, coarsest first. It is for the
+// caller's convenience; the package itself does not read it, so changing it
+// changes nothing here.
 var All = []Series{E3, E6, E12, E24, E48, E96, E192}
+
+var allSeries = [...]Series{E3, E6, E12, E24, E48, E96, E192}
 
 func init() {
 	for i := range tables {
@@ -140,7 +144,7 @@ func (s Series) Tolerance() float64 {
 // ParseSeries returns the series named name ("E24", case-insensitive "e24"
 // too). An unknown name is an error wrapping ErrSeries.
 func ParseSeries(name string) (Series, error) {
-	for _, s := range All {
+	for _, s := range allSeries {
 		if len(name) == len(s.String()) && (name[0] == 'E' || name[0] == 'e') && name[1:] == s.String()[1:] {
 			return s, nil
 		}

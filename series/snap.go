@@ -259,6 +259,37 @@ func buildSnapped(chain topology.Chain, p Policy, cands [][]candidate, choice []
 	return out, nil
 }
 
+// Tolerances returns the tolerances of the snapped parts keyed by
+// designator, for Analysis: each part's series' customary tolerance, and for
+// a resistor built as a pair the tolerance of its two parts (the pair's
+// worst case; a random pair spreads less). Snapped.Chain holds a pair's
+// resistance, which is on no series, so an Analysis of it needs these.
+func (s Snapped) Tolerances() Tolerances {
+	t := Tolerances{Part: map[string]float64{}}
+	for _, it := range s.Items {
+		ref := it.Ref
+		if n := len(ref); n > 0 && (ref[n-1] == 'a' || ref[n-1] == 'b') {
+			if _, isPair := s.pairOf(ref[:n-1]); isPair {
+				ref = ref[:n-1] // "U1.R2a" is half of U1.R2
+			}
+		}
+		t.Part[ref] = max(t.Part[ref], it.Tolerance)
+	}
+	return t
+}
+
+// pairOf returns the pair built for the part with designator ref.
+func (s Snapped) pairOf(ref string) (Pair, bool) {
+	for i, r := range s.Stages {
+		for pref, p := range r.Pairs {
+			if Designator(i, pref) == ref {
+				return p, true
+			}
+		}
+	}
+	return Pair{}, false
+}
+
 // Round returns chain with every part rounded on its own to the nearest
 // value of its series (resistors to res, capacitors to cap): what is done
 // by hand, and what Snap is compared with.

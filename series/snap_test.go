@@ -149,6 +149,28 @@ func TestSnapPairs(t *testing.T) {
 	if npairs == 0 {
 		t.Error("no pair chosen with E24 resistors and E6 capacitors")
 	}
+	// A pair's resistance is on no series: the analysis needs the snapped
+	// parts' tolerances, and gets them from Snapped.Tolerances.
+	a := Analysis{Trials: 100, Hz: []float64{1e3, 20e3}}
+	if _, err := a.MonteCarlo(res.Chain); !errors.Is(err, ErrChain) {
+		t.Errorf("pairs without tolerances: %v, want ErrChain", err)
+	}
+	a.Tolerances = res.Tolerances()
+	if _, err := a.MonteCarlo(res.Chain); err != nil {
+		t.Errorf("pairs with Snapped.Tolerances: %v", err)
+	}
+	nparts := 0
+	for _, c := range res.Chain.Circuits {
+		nparts += len(c.Parts)
+	}
+	if len(a.Tolerances.Part) != nparts {
+		t.Errorf("%d tolerances for %d parts", len(a.Tolerances.Part), nparts)
+	}
+	for ref, tol := range a.Tolerances.Part {
+		if k, _ := KindOf(ref); (k == Resistor && tol != 0.05) || (k == Capacitor && tol != 0.2) {
+			t.Errorf("%s tolerance %g", ref, tol)
+		}
+	}
 }
 
 func TestSnapErrors(t *testing.T) {

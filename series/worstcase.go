@@ -103,10 +103,10 @@ func (m Analysis) prepare(chain topology.Chain) ([]Item, error) {
 // WorstCase returns the linear worst-case analysis of chain with m's
 // tolerances: per stage the worst relative deviations of f0, Q and gain
 // from the parts' sensitivities, and bounds of the gain at m.Hz. Linear:
-// accurate while the tolerances are small enough for first-order terms to
-// dominate (at ±5 % the second-order terms are of order 0.25 %); the Monte
-// Carlo spread stays within these bounds up to that. m.Dist, Trials and the
-// criteria are not used.
+// the neglected terms are of the order of the squared tolerances (relative),
+// so the bounds suit tolerances of a few percent; the Monte Carlo extremes
+// stay within them up to such terms (tested at ±0.2 %). m.Dist, Trials and
+// the criteria are not used.
 func (m Analysis) WorstCase(chain topology.Chain) (WorstCase, error) {
 	items, err := m.prepare(chain)
 	if err != nil {
