@@ -70,7 +70,7 @@ func ExampleCircuit_Refit() {
 	fmt.Printf("GBW for 1%%: %.2g Hz (rule of thumb %.2g Hz)\n", gbw, r.RuleOfThumbGBWHz())
 	// Output:
 	// multiple-feedback, inverting true: f0 1000.0 Hz, Q 8.00, gain 1.00
-	// GBW for 1%: 7.9e+05 Hz (rule of thumb 8e+05 Hz)
+	// GBW for 1%: 9.1e+05 Hz (rule of thumb 8e+05 Hz)
 }
 
 // Monte Carlo style evaluation: one Evaluator per goroutine.
