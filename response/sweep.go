@@ -86,9 +86,9 @@ func SweepInto(dst []Point, s System, hz []float64) []Point {
 	}
 	switch h := s.(type) {
 	case filter.Transfer:
-		sweepTransfer(dst, h, hz)
+		sweepTransferFast(dst, h, hz)
 	case *filter.Transfer:
-		sweepTransfer(dst, *h, hz)
+		sweepTransferFast(dst, *h, hz)
 	default:
 		sweepSystem(dst, s, hz)
 	}

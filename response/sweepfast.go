@@ -1,0 +1,281 @@
+package response
+
+import (
+	"math"
+
+	"github.com/rolloff/rolloff/filter"
+)
+
+// This file is the fast path of SweepInto for a filter.Transfer. It
+// computes the same quantities as phaseDelay and gainDB (sweep.go), with
+// the same branch conventions, but with one atan2 and one logarithm per
+// frequency instead of one atan2 per pole and zero and a complex division
+// per factor:
+//
+//   - A conjugate pair r, r̄ = −a ± jβ (a ≥ 0 after the on-axis rounding of
+//     factorParts) is one quadratic factor of jω,
+//     (jω − r)(jω − r̄) = (a² + (β−ω)(β+ω)) + j·2aω,
+//     whose principal argument is exactly the sum of the two factors'
+//     arguments (each lies in [−π/2, π/2], the sum in [−π, π] and on the
+//     branch atan2 returns), and whose delay term is the derivative of that
+//     argument, 2a(a² + β² + ω²)/|f|² (common practice: differentiate
+//     atan2(2aω, a² + β² − ω²)). The real part is formed as
+//     a² + (β−ω)(β+ω) so that it keeps its relative accuracy near ω = β.
+//   - Every other root (real, unpaired, or in the right half-plane) is its
+//     own factor a + jb, b = ω − Im r.
+//   - The arguments are summed without evaluating them: the complex product
+//     P of the zero factors and of the conjugates of the pole factors (each
+//     pole factor as conj(f)/|f|², which keeps P of the size of H) carries
+//     the sum modulo 2π, and the number of whole turns is counted as the
+//     product is formed. A multiplier in the closed upper half-plane (sign
+//     bit of its imaginary part clear) turns P by an angle in [0, π]; P then
+//     passes the negative real axis exactly when it goes from the upper to
+//     the lower half-plane, classified by the sign bit as atan2 does. A
+//     multiplier in the lower half-plane turns it by an angle in [−π, 0],
+//     and the mirror rule applies. The sign-bit classification is the one
+//     atan2 uses, and where the rule could be misled by rounding (P and the
+//     multiplier both within rounding of the real axis) the two terms of
+//     the new imaginary part have the same sign, so there is no
+//     cancellation: the count is exact. The phase is atan2(Im P, Re P) plus
+//     2π times the count.
+//   - A right-half-plane root's argument is on the branch (π/2, 3π/2) of
+//     factorArg, which differs from the principal one by 2π where b < 0;
+//     the count adds that turn.
+//   - P is rescaled by exact powers of two when it leaves [2⁻⁴⁰⁰, 2⁴⁰⁰], so
+//     the gain of a high-order filter far in its stopband neither
+//     underflows nor overflows; the scale enters the gain in dB.
+//
+// A frequency where this cannot be done (a factor exactly zero, a factor
+// whose squared size overflows) is computed by the per-factor path of
+// sweep.go instead, so the results are those documented on SweepInto.
+
+// prodHi and prodLo bound the running product; rescaling multiplies it by
+// 2^∓prodShift, exactly.
+const (
+	prodHi    = 0x1p400
+	prodLo    = 0x1p-400
+	prodShift = 800
+)
+
+// db20Log2 is 20·log10(2), the gain in dB of one binary exponent.
+const db20Log2 = 6.020599913279624
+
+// pairFactor is a conjugate pair −a ± jβ (a ≥ 0, β > 0) as a quadratic
+// factor: a2 = a², c1 = 2a, c0 = a² + β².
+type pairFactor struct{ a2, beta, c1, c0 float64 }
+
+// factorSet is a Transfer's zeros or poles split into conjugate pairs and
+// single roots, held in fixed arrays so that a sweep does not allocate.
+type factorSet struct {
+	pairs      [maxFastPairs]pairFactor
+	axis       [maxFastPairs]float64 // β of pairs on the jω axis (a = 0)
+	singles    [maxFastSingles]complex128
+	np, na, ns int
+}
+
+// maxFastPairs and maxFastSingles bound the factors the fast path holds; a
+// Transfer with more is swept by the per-factor path.
+const (
+	maxFastPairs   = 64
+	maxFastSingles = 16
+)
+
+// split fills s from roots: two adjacent exact conjugates with a ≥ 0 (left
+// half-plane, or on the jω axis after the rounding of factorParts) form a
+// pair, kept apart in axis when a = 0 and axisOK (zeros); every other
+// root is single. It reports false when the arrays are too small.
+func (s *factorSet) split(roots []complex128, axisOK bool) bool {
+	s.np, s.na, s.ns = 0, 0, 0
+	for i := 0; i < len(roots); {
+		r := roots[i]
+		if i+1 < len(roots) && imag(r) != 0 && roots[i+1] == complex(real(r), -imag(r)) {
+			if a, _ := factorParts(r, 0); a >= 0 {
+				b := math.Abs(imag(r))
+				switch {
+				case s.np == maxFastPairs || s.na == maxFastPairs:
+					return false
+				case a == 0 && axisOK:
+					s.axis[s.na] = b
+					s.na++
+				default:
+					s.pairs[s.np] = pairFactor{a2: a * a, beta: b, c1: 2 * a, c0: a*a + b*b}
+					s.np++
+				}
+				i += 2
+				continue
+			}
+		}
+		if s.ns == maxFastSingles {
+			return false
+		}
+		s.singles[s.ns] = r
+		s.ns++
+		i++
+	}
+	return true
+}
+
+// turnStep is the change of the whole-turn count when P = (·, pi) is
+// multiplied by a number with imaginary part xi into (·, ni) (see the file
+// comment), from the sign bits alone: +1 for a multiplier in the upper
+// half-plane taking P from the upper to the lower half-plane, −1 for one
+// in the lower half-plane taking it from the lower to the upper.
+func turnStep(pi, xi, ni float64) int {
+	sp := math.Float64bits(pi) >> 63
+	sx := math.Float64bits(xi) >> 63
+	sn := math.Float64bits(ni) >> 63
+	return int((1^sx)&(1^sp)&sn) - int(sx&sp&(1^sn))
+}
+
+// singleAt multiplies (pr, pi) by the factor jω − r of a zero (pole
+// false) or by conj(jω − r)/|jω − r|² of a pole, and returns the product,
+// the change of the turn count (with the extra turn of a right-half-plane
+// root, whose factorArg branch is (π/2, 3π/2)) and the delay term. ok is
+// false when the factor is zero or its squared size not finite.
+func singleAt(pr, pi float64, r complex128, w float64, pole bool) (nr, ni float64, dk int, slope float64, ok bool) {
+	a, b := factorParts(r, w)
+	m := a*a + b*b
+	if !(m > 0 && m <= math.MaxFloat64) {
+		return 0, 0, 0, 0, false
+	}
+	xr, xi := a, b
+	if pole {
+		inv := 1 / m
+		xr, xi = a*inv, -b*inv
+	}
+	nr = pr*xr - pi*xi
+	ni = pr*xi + pi*xr
+	dk = turnStep(pi, xi, ni)
+	if a < 0 && math.Signbit(b) {
+		if pole {
+			dk--
+		} else {
+			dk++
+		}
+	}
+	return nr, ni, dk, a / m, true
+}
+
+// pointFast returns the gain (dB), phase (radians) and delay (s) at
+// ω rad/s of the transfer with gain g0 dB, sign flip neg, zeros z and
+// poles p, or ok = false where the per-factor path must be used.
+func pointFast(g0 float64, neg bool, z, p *factorSet, w float64) (gdb, phase, delay float64, ok bool) {
+	pr, pi := 1.0, 0.0
+	k := 0 // whole turns
+	e := 0 // binary exponent of the rescaling
+	w2 := w * w
+	// Zero pairs on the jω axis: a real factor ωz² − ω², which turns P by
+	// +π (ω > 0) or −π (ω < 0) where it is negative. Its sign flips that of
+	// pi exactly, so the rule of turnStep reduces to the sign of pi before.
+	up := 1 - int(math.Float64bits(w)>>63)
+	for _, b := range z.axis[:z.na] {
+		re := (b - w) * (b + w)
+		if math.Signbit(re) {
+			if low := int(math.Float64bits(pi) >> 63); up == 1 {
+				k += 1 - low
+			} else {
+				k -= low
+			}
+		}
+		pr, pi = pr*re, pi*re
+		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
+			pr, pi, e = rescale(pr, pi, s, e)
+		}
+	}
+	for _, f := range z.pairs[:z.np] {
+		re := f.a2 + (f.beta-w)*(f.beta+w)
+		im := f.c1 * w
+		delay -= f.c1 * (f.c0 + w2) / (re*re + im*im)
+		nr, ni := pr*re-pi*im, pr*im+pi*re
+		k += turnStep(pi, im, ni)
+		pr, pi = nr, ni
+		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
+			pr, pi, e = rescale(pr, pi, s, e)
+		}
+	}
+	for _, f := range p.pairs[:p.np] {
+		re := f.a2 + (f.beta-w)*(f.beta+w)
+		im := f.c1 * w
+		m := re*re + im*im
+		if !(m > 0 && m <= math.MaxFloat64) {
+			return 0, 0, 0, false
+		}
+		inv := 1 / m
+		delay += f.c1 * (f.c0 + w2) * inv
+		xr, xi := re*inv, -im*inv
+		nr, ni := pr*xr-pi*xi, pr*xi+pi*xr
+		k += turnStep(pi, xi, ni)
+		pr, pi = nr, ni
+		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
+			pr, pi, e = rescale(pr, pi, s, e)
+		}
+	}
+	for i := range z.ns + p.ns {
+		pole := i >= z.ns
+		r := z.singles[min(i, maxFastSingles-1)]
+		if pole {
+			r = p.singles[i-z.ns]
+		}
+		nr, ni, dk, slope, good := singleAt(pr, pi, r, w, pole)
+		if !good {
+			return 0, 0, 0, false
+		}
+		if pole {
+			delay += slope
+		} else {
+			delay -= slope
+		}
+		pr, pi, k = nr, ni, k+dk
+		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
+			pr, pi, e = rescale(pr, pi, s, e)
+		}
+	}
+	m := pr*pr + pi*pi
+	if !(m > 0 && m <= math.MaxFloat64) {
+		return 0, 0, 0, false
+	}
+	phase = math.Atan2(pi, pr) + 2*math.Pi*float64(k)
+	if neg {
+		phase += math.Pi
+	}
+	gdb = g0 + 10*math.Log10(m) + db20Log2*float64(e)
+	return gdb, phase, delay, true
+}
+
+// rescale multiplies (pr, pi), of size s = |pr| + |pi| outside
+// [prodLo, prodHi], by 2^∓prodShift and updates the exponent e. A zero or
+// non-finite product is returned as it is (the caller falls back).
+func rescale(pr, pi, s float64, e int) (float64, float64, int) {
+	switch {
+	case s > prodHi && s <= math.MaxFloat64:
+		return pr * 0x1p-800, pi * 0x1p-800, e + prodShift
+	case s < prodLo && s > 0:
+		return pr * 0x1p800, pi * 0x1p800, e - prodShift
+	}
+	return pr, pi, e
+}
+
+// sweepTransferFast is sweepTransfer by pointFast, falling back per
+// frequency (or, for a Transfer with more factors than the fast path
+// holds, entirely) to the per-factor path. It does not allocate.
+func sweepTransferFast(dst []Point, h filter.Transfer, hz []float64) {
+	var z, p factorSet
+	if !z.split(h.Zeros, true) || !p.split(h.Poles, false) {
+		sweepTransfer(dst, h, hz)
+		return
+	}
+	g0 := 20 * math.Log10(math.Abs(h.Gain))
+	neg := h.Gain < 0
+	for i, f := range hz {
+		w := 2 * math.Pi * f
+		if gdb, ph, d, ok := pointFast(g0, neg, &z, &p, w); ok {
+			dst[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * 180 / math.Pi, DelayS: d}
+			continue
+		}
+		ph, d := phaseDelay(h, w)
+		dst[i] = Point{Hz: f, GainDB: gainDB(h.At(complex(0, w))), PhaseDeg: ph * 180 / math.Pi, DelayS: d}
+		if math.IsNaN(f) {
+			dst[i] = Point{math.NaN(), math.NaN(), math.NaN(), math.NaN()}
+		}
+	}
+}

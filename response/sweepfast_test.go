@@ -1,0 +1,149 @@
+package response
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/rolloff/rolloff/filter"
+	"pgregory.net/rapid"
+)
+
+// Tolerances of the fast sweep against the per-factor reference
+// (sweepTransfer): both are exact to rounding, but they round differently
+// (a quadratic factor per conjugate pair, one atan2 of the product instead
+// of a sum of atan2s, |P|² instead of a hypot). The phase is a sum of up to
+// a few dozen terms of size up to π, each with an error of a few ulps:
+// 1e-9° absolute is a thousand times above that. The gain agrees to
+// 1e-9 dB (relative magnitude 1e-10) and the delay to 1e-9 relative of
+// the largest delay term, for the pole Qs the generator draws (up to 20),
+// where the conditioning near ω = Im p costs at most about 2Q ulps.
+const (
+	fastPhaseTolDeg = 1e-9
+	fastGainTolDB   = 1e-9
+	fastDelayTolRel = 1e-9
+)
+
+// belowFloat64DB is 20·log10 of the smallest positive float64 (4.9e-324).
+var belowFloat64DB = 20 * math.Log10(math.SmallestNonzeroFloat64)
+
+// checkFastAgainstReference compares the fast path with the per-factor
+// reference at every frequency of hz.
+func checkFastAgainstReference(t interface {
+	Helper()
+	Fatalf(string, ...any)
+}, h filter.Transfer, hz []float64) {
+	t.Helper()
+	got := make([]Point, len(hz))
+	want := make([]Point, len(hz))
+	sweepTransferFast(got, h, hz)
+	sweepTransfer(want, h, hz)
+	// Scale of the delay: the sum of the magnitudes of the terms.
+	for i := range hz {
+		g, w := got[i], want[i]
+		if math.IsNaN(w.Hz) {
+			if !math.IsNaN(g.Hz) || !math.IsNaN(g.GainDB) || !math.IsNaN(g.PhaseDeg) || !math.IsNaN(g.DelayS) {
+				t.Fatalf("NaN frequency: fast %+v, want NaNs", g)
+			}
+			continue
+		}
+		ds := delayScale(h, 2*math.Pi*hz[i])
+		switch {
+		case math.Abs(g.PhaseDeg-w.PhaseDeg) > fastPhaseTolDeg:
+			t.Fatalf("at %g Hz: phase %.15g°, reference %.15g°", hz[i], g.PhaseDeg, w.PhaseDeg)
+		case math.IsInf(w.GainDB, -1) && g.GainDB < belowFloat64DB:
+			// |H| is below the smallest float64: the reference's product
+			// underflowed to 0, the rescaled product did not.
+		case !(math.Abs(g.GainDB-w.GainDB) <= fastGainTolDB) && g.GainDB != w.GainDB &&
+			!(math.IsNaN(g.GainDB) && math.IsNaN(w.GainDB)):
+			t.Fatalf("at %g Hz: gain %.15g dB, reference %.15g dB", hz[i], g.GainDB, w.GainDB)
+		case math.Abs(g.DelayS-w.DelayS) > fastDelayTolRel*ds:
+			t.Fatalf("at %g Hz: delay %.15g s, reference %.15g s (scale %g s)", hz[i], g.DelayS, w.DelayS, ds)
+		case g.Hz != w.Hz:
+			t.Fatalf("frequency %g, want %g", g.Hz, w.Hz)
+		}
+	}
+}
+
+// delayScale is Σ |a|/(a² + b²) over all factors: the size of the terms
+// the delay is summed from.
+func delayScale(h filter.Transfer, w float64) float64 {
+	s := 0.0
+	for _, r := range append(append([]complex128(nil), h.Zeros...), h.Poles...) {
+		a, b := factorParts(r, w)
+		if d := a*a + b*b; d > 0 {
+			s += math.Abs(a) / d
+		}
+	}
+	return s
+}
+
+// TestPropSweepFastMatchesFactorSum: for random stable transfers (complex
+// and real poles, zeros at the origin, on the jω axis, and in either
+// half-plane), on random grids including negative frequencies and DC, the
+// fast path equals the per-factor sum of sweep.go to rounding.
+func TestPropSweepFastMatchesFactorSum(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		h := stableTransfer(t, 5, true, -1, 4)
+		n := rapid.IntRange(1, 40).Draw(t, "points")
+		hz := make([]float64, n)
+		for i := range hz {
+			f := math.Pow(10, rapid.Float64Range(-3, 6).Draw(t, "f"))
+			switch rapid.IntRange(0, 9).Draw(t, "kind") {
+			case 0:
+				f = -f
+			case 1:
+				f = 0
+			}
+			hz[i] = f
+		}
+		checkFastAgainstReference(t, h, hz)
+	})
+}
+
+// TestSweepFastEdges: designs of every family and band, a high order far
+// into its stopband (the running product is rescaled), unpaired complex
+// roots, a zero gain, exact zeros and poles on the grid, NaN frequencies.
+func TestSweepFastEdges(t *testing.T) {
+	var hs []filter.Transfer
+	specs := []filter.Spec{
+		{Band: filter.Lowpass, PassHz: [2]float64{1e3}, StopHz: [2]float64{1.3e3}, RippleDB: 0.5, AttenDB: 60},
+		{Band: filter.Highpass, PassHz: [2]float64{1e3}, StopHz: [2]float64{600}, RippleDB: 1, AttenDB: 40},
+		{Band: filter.Bandpass, PassHz: [2]float64{900, 1100}, StopHz: [2]float64{700, 1400}, RippleDB: 1, AttenDB: 40},
+		{Band: filter.Bandstop, PassHz: [2]float64{700, 1400}, StopHz: [2]float64{900, 1100}, RippleDB: 1, AttenDB: 40},
+	}
+	fams := []filter.Family{filter.Butterworth{}, filter.Chebyshev{}, filter.InverseChebyshev{}, filter.Elliptic{}}
+	for _, s := range specs {
+		for _, f := range fams {
+			h, err := filter.Design(f, s)
+			if errors.Is(err, filter.ErrRange) {
+				continue
+			}
+			if err != nil {
+				t.Fatalf("%v %v: %v", f, s.Band, err)
+			}
+			hs = append(hs, h)
+		}
+	}
+	hs = append(hs, butterworth(32, 10), butterworth(64, 1e3))
+	hs = append(hs, filter.Transfer{Poles: []complex128{complex(-1, 5), complex(-2, -3)}, Zeros: []complex128{complex(1, 2)}, Gain: 2})
+	hs = append(hs, filter.Transfer{Poles: []complex128{-1, -2}})
+	notch := filter.Stage{Kind: filter.NotchStage, Order: 2, F0Hz: 50, Q: 2, ZeroHz: 50, Gain: 1}.Transfer()
+	hs = append(hs, notch)
+	hz := []float64{0, 1e-3, 1, 10, 49.99, 50, 50.01, 100, 999, 1e3, 1.1e3, 1e4, 1e5, 1e7, 1e9, -3, -1e4, math.NaN(), 1 / (2 * math.Pi)}
+	for _, h := range hs {
+		checkFastAgainstReference(t, h, hz)
+	}
+}
+
+// TestSweepFastAxisPoles: poles on the jω axis (an undamped resonator) and
+// a Transfer with more factors than the fast path holds.
+func TestSweepFastAxisPoles(t *testing.T) {
+	w0 := 2 * math.Pi * 100
+	res := filter.Transfer{Zeros: []complex128{0}, Poles: []complex128{complex(0, w0), complex(0, -w0)}, Gain: 1}
+	hz := []float64{1, 50, 99.9, 100, 100.1, 200, -150, 0}
+	checkFastAgainstReference(t, res, hz)
+	big := butterworth(maxFastPairs*2+4, 10)
+	big.Zeros = make([]complex128, maxFastSingles+1)
+	checkFastAgainstReference(t, big, hz)
+}
