@@ -3,6 +3,7 @@
 
   filter/testdata/orders_scipy.json      minimum analog orders of masks
   filter/testdata/transforms_scipy.json  frequency transforms of prototypes
+  filter/testdata/orders_designs_scipy.json  whole designs from masks
 
 Orders come from SciPy's analog order estimators (buttord, cheb1ord,
 cheb2ord, ellipord with analog=True) for lowpass, highpass, bandpass and
@@ -14,6 +15,12 @@ Transforms take SciPy's own normalized prototypes (zpk form) and apply
 scipy.signal's zpk frequency transforms with the centre and width in rad/s;
 the input zpk is stored too, so the Go test transforms exactly the same
 input.
+
+Designs: for masks where SciPy and filter.Design place the slack the same
+way (Butterworth and Chebyshev type I, lowpass, highpass and bandpass:
+passband edge exact, the transform centred on the passband edges), the
+order from buttord/cheb1ord and the zpk from butter/cheby1 with
+analog=True; the Go test compares filter.Design's poles, zeros and gain.
 
 Run from the repository root with Debian's interpreter:
     /usr/bin/python3 internal/scipyref/orders.py
@@ -144,6 +151,33 @@ def transforms():
     return cases
 
 
+def designs():
+    cases = []
+    masks_ = [
+        {"band": "lowpass", "pass_hz": [1000.0, 0], "stop_hz": [3000.0, 0], "ripple_db": 1.0, "atten_db": 40.0},
+        {"band": "lowpass", "pass_hz": [20000.0, 0], "stop_hz": [30000.0, 0], "ripple_db": 0.5, "atten_db": 60.0},
+        {"band": "highpass", "pass_hz": [300.0, 0], "stop_hz": [100.0, 0], "ripple_db": 0.2, "atten_db": 45.0},
+        {"band": "highpass", "pass_hz": [5.0, 0], "stop_hz": [3.0, 0], "ripple_db": 2.0, "atten_db": 30.0},
+        {"band": "bandpass", "pass_hz": [1000.0, 2000.0], "stop_hz": [500.0, 5000.0], "ripple_db": 1.0, "atten_db": 40.0},
+        {"band": "bandpass", "pass_hz": [9000.0, 11000.0], "stop_hz": [7500.0, 13200.0], "ripple_db": 0.5, "atten_db": 40.0},
+    ]
+    for m in masks_:
+        band = m["band"]
+        if band in ("lowpass", "highpass"):
+            wp, ws = TWO_PI * m["pass_hz"][0], TWO_PI * m["stop_hz"][0]
+        else:
+            wp = [TWO_PI * m["pass_hz"][0], TWO_PI * m["pass_hz"][1]]
+            ws = [TWO_PI * m["stop_hz"][0], TWO_PI * m["stop_hz"][1]]
+        rp, rs = m["ripple_db"], m["atten_db"]
+        n, wn = signal.buttord(wp, ws, rp, rs, analog=True)
+        z, p, k = signal.butter(n, wn, btype=band, analog=True, output="zpk")
+        cases.append({"family": "butterworth", "mask": m, "order": int(n), "output": zpk_json(z, p, k)})
+        n, wn = signal.cheb1ord(wp, ws, rp, rs, analog=True)
+        z, p, k = signal.cheby1(n, rp, wn, btype=band, analog=True, output="zpk")
+        cases.append({"family": "chebyshev", "mask": m, "order": int(n), "output": zpk_json(z, p, k)})
+    return cases
+
+
 def main():
     rows = []
     for m in masks():
@@ -151,6 +185,10 @@ def main():
     head = "scipy.signal analog order estimators (buttord, cheb1ord, cheb2ord, ellipord, analog=True)"
     with open(os.path.join(TESTDATA, "orders_scipy.json"), "w") as f:
         json.dump({"source": head, "scipy_version": scipy.__version__, "rows": rows}, f, indent=1)
+        f.write("\n")
+    head = "scipy.signal buttord+butter, cheb1ord+cheby1 (analog=True, output='zpk')"
+    with open(os.path.join(TESTDATA, "orders_designs_scipy.json"), "w") as f:
+        json.dump({"source": head, "scipy_version": scipy.__version__, "cases": designs()}, f, indent=1)
         f.write("\n")
     head = "scipy.signal lp2lp_zpk, lp2hp_zpk, lp2bp_zpk, lp2bs_zpk of buttap, cheb1ap, cheb2ap, ellipap"
     with open(os.path.join(TESTDATA, "transforms_scipy.json"), "w") as f:
