@@ -317,3 +317,41 @@ func TestStagesPeakBesideAPolePoint(t *testing.T) {
 		}
 	}
 }
+
+// TestStagesChebyshevTable checks the stage pole frequencies (relative to
+// the ripple edge) and Q of 0.5 dB Chebyshev lowpass filters against the
+// coefficient table, from memory of the 0.5 dB Chebyshev table in Mancini
+// (ed.), "Op Amps for Everyone" (Texas Instruments), ch. 16, given to four
+// digits.
+func TestStagesChebyshevTable(t *testing.T) {
+	type fq struct{ F0, Q float64 }
+	for _, c := range []struct {
+		n    int
+		want []fq
+	}{
+		{2, []fq{{1.2313, 0.8637}}},
+		{3, []fq{{0.6265, 0}, {1.0689, 1.7062}}},
+		{4, []fq{{0.5970, 0.7051}, {1.0313, 2.9406}}},
+		{5, []fq{{0.3623, 0}, {0.6905, 1.1778}, {1.0177, 4.5450}}},
+	} {
+		h, err := Chebyshev{RippleDB: 0.5}.Prototype(c.n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		h, err = h.ToLowpass(1000)
+		if err != nil {
+			t.Fatal(err)
+		}
+		stages, err := h.Stages()
+		if err != nil {
+			t.Fatal(err)
+		}
+		var got []fq
+		for _, s := range stages {
+			got = append(got, fq{s.F0Hz / 1000, s.Q})
+		}
+		if d := cmp.Diff(c.want, got, cmpopts.EquateApprox(0, 5e-5)); d != "" {
+			t.Errorf("order %d (-table +got):\n%s", c.n, d)
+		}
+	}
+}
