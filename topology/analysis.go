@@ -194,7 +194,7 @@ func (c Circuit) Biquad() (Biquad, error) {
 	if err != nil {
 		return Biquad{}, err
 	}
-	var w mna.Workspace
+	var w mna.Interpolator
 	return biquadOf(d, &w, v, mna.RadiusOf(&d.net, v))
 }
 
@@ -218,7 +218,7 @@ func (c Circuit) BiquadOf(values []float64) (Biquad, error) {
 			return Biquad{}, errValueBad
 		}
 	}
-	var w mna.Workspace
+	var w mna.Interpolator
 	return biquadOf(d, &w, values, mna.RadiusOf(&d.net, values))
 }
 
@@ -226,7 +226,7 @@ func (c Circuit) BiquadOf(values []float64) (Biquad, error) {
 // capacitor count needs (three capacitors in the multiple-feedback
 // highpass, whose op-amp constraint still leaves it second order) and
 // returns the coefficients up to s², checking that higher ones vanish.
-func biquadOf(d *design, w *mna.Workspace, v []float64, radius float64) (Biquad, error) {
+func biquadOf(d *design, w *mna.Interpolator, v []float64, radius float64) (Biquad, error) {
 	var b Biquad
 	var num, den [mna.MaxDim + 1]float64
 	m := max(d.net.Degree(mna.Amp{})+1, 3)
@@ -254,7 +254,7 @@ type Evaluator struct {
 	d      *design
 	stage  filter.Stage
 	radius float64
-	w      mna.Workspace
+	w      mna.Interpolator
 }
 
 // NewEvaluator returns an Evaluator for c's template. The sampling radius

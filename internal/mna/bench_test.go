@@ -31,7 +31,7 @@ func BenchmarkCoefficients(b *testing.B) {
 			net := ladder(n)
 			vals := []float64{1e3, 1e-8, 2e3, 1e-8}[:2*n]
 			num, den := make([]float64, n+1), make([]float64, n+1)
-			var w Workspace
+			var w Interpolator
 			b.ReportAllocs()
 			for b.Loop() {
 				_ = w.Coefficients(&net, vals, Amp{}, 1e5, num, den)

@@ -178,9 +178,16 @@ type Workspace struct {
 	m   [MaxDim * MaxDim]complex128
 	b   [MaxDim]complex128
 	inv [MaxDim]complex128 // reciprocal pivots
-	// interpolation buffers of Coefficients, kept here so that a reused
-	// Workspace does not clear them on every call
+}
+
+// Interpolator is a Workspace plus the buffers of Coefficients, kept so
+// that a reused Interpolator neither clears them nor recomputes its sample
+// points on every call. The zero value is ready to use; like a Workspace
+// it is not safe for concurrent use.
+type Interpolator struct {
+	Workspace
 	pn, pd, zs [MaxDim + 1]complex128
+	zsM        int // number of sample points zs holds (0: none yet)
 	v          [(MaxDim + 1) * (MaxDim + 1)]float64
 	rn, rd     [MaxDim + 1]float64
 }

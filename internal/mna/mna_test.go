@@ -247,7 +247,7 @@ func TestBadNetlists(t *testing.T) {
 func TestTransferAllocs(t *testing.T) {
 	net := ladder(4)
 	vals := []float64{1e3, 1e-8, 2e3, 1e-8, 3e3, 1e-8, 4e3, 1e-8}
-	var w Workspace
+	var w Interpolator
 	num, den := make([]float64, 5), make([]float64, 5)
 	allocs := testing.AllocsPerRun(100, func() {
 		_, _, _ = w.Transfer(&net, vals, Amp{}, complex(0, 1e4))

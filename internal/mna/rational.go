@@ -60,7 +60,7 @@ func RadiusOf(n *Netlist, values []float64) float64 {
 // The error wraps ErrSingular when the circuit is singular at a sample
 // point (a pole in the right half-plane or on the jω axis) and ErrDegree for
 // slices of the wrong length or a zero denominator.
-func (w *Workspace) Coefficients(n *Netlist, values []float64, a Amp, radius float64, num, den []float64) error {
+func (w *Interpolator) Coefficients(n *Netlist, values []float64, a Amp, radius float64, num, den []float64) error {
 	m := len(den)
 	if len(num) != m || m < n.Degree(a)+1 || m > MaxDim+1 {
 		return ErrDegree
@@ -108,20 +108,25 @@ func (w *Workspace) Coefficients(n *Netlist, values []float64, a Amp, radius flo
 // scaled leaves in w.rn and w.rd the coefficients of the Cramer numerator
 // and of det(M) in the scaled variable z = s/radius (c_j·radius^j), from m
 // samples on the right half of the circle |s| = radius.
-func (w *Workspace) scaled(n *Netlist, values []float64, a Amp, radius float64, m int) error {
+func (w *Interpolator) scaled(n *Netlist, values []float64, a Amp, radius float64, m int) error {
 	if !(radius > 0) || math.IsInf(radius, 0) {
 		return ErrValue
 	}
 	// Sample points z_k = exp(iθ_k), θ_k from −π/2 to π/2; evaluate the
 	// upper half (θ ≥ 0), the lower half is the conjugate.
 	pn, pd, zs := &w.pn, &w.pd, &w.zs
-	for k := range m {
-		theta := 0.0
-		if m > 1 {
-			theta = math.Pi * (float64(k)/float64(m-1) - 0.5)
+	if w.zsM != m {
+		for k := range m {
+			theta := 0.0
+			if m > 1 {
+				theta = math.Pi * (float64(k)/float64(m-1) - 0.5)
+			}
+			zs[k] = cmplx.Rect(1, theta)
 		}
-		zs[k] = cmplx.Rect(1, theta)
-		if theta < 0 {
+		w.zsM = m
+	}
+	for k := range m {
+		if imag(zs[k]) < 0 {
 			continue
 		}
 		h, det, err := w.Transfer(n, values, a, complex(radius, 0)*zs[k])
@@ -240,7 +245,7 @@ func RationalOf(n *Netlist, values []float64, a Amp, radius float64) (Rational, 
 	m := n.Degree(a) + 1
 	num, den := make([]float64, m), make([]float64, m)
 	qn, qd := make([]float64, m), make([]float64, m)
-	var w Workspace
+	var w Interpolator
 	ok := false
 	for k := -6; k <= 6; k++ {
 		r := radius * math.Pow(10, float64(k))
