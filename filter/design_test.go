@@ -6,6 +6,7 @@ import (
 	"math/cmplx"
 	"testing"
 
+	"github.com/google/go-cmp/cmp"
 	"pgregory.net/rapid"
 )
 
@@ -438,5 +439,37 @@ func TestDesignOutsideFamily(t *testing.T) {
 	far := Spec{Band: Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{1001}, RippleDB: 1, AttenDB: 60}
 	if _, err := MinOrder(shiftedButterworth{}, far); !errors.Is(err, ErrRange) {
 		t.Errorf("unreachable mask: %v, want ErrRange", err)
+	}
+}
+
+// TestDesignConcurrentDeterministic: Design and Stages are pure: the same
+// input gives the same bits, from any number of goroutines at once.
+func TestDesignConcurrentDeterministic(t *testing.T) {
+	type result struct {
+		H  Transfer
+		St []Stage
+	}
+	run := func() result {
+		h, err := Design(Elliptic{}, benchBandpassMask)
+		if err != nil {
+			panic(err)
+		}
+		st, err := h.Stages()
+		if err != nil {
+			panic(err)
+		}
+		return result{h, st}
+	}
+	want := run()
+	const workers = 8
+	out := make(chan result, workers)
+	for range workers {
+		go func() { out <- run() }()
+	}
+	for range workers {
+		got := <-out
+		if d := cmp.Diff(want, got, sameBits, cmp.Comparer(func(a, b complex128) bool { return a == b })); d != "" {
+			t.Fatalf("results differ (-first +concurrent):\n%s", d)
+		}
 	}
 }
