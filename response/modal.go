@@ -29,6 +29,8 @@ import (
 //     r·t ≤ 1, r the cluster radius. For r·t > 1 the classical terms of the
 //     cluster's poles are used, whose cancellation then costs at most
 //     (m−1)!·ε.
+//   - At early times the Taylor series at t = 0 may replace the whole modal
+//     sum (see taylorSeries and modal.at).
 const (
 	snapRel      = 1e-5 // conjugate pairing and real-axis snapping
 	nearRel      = 0.1  // clustering distance, relative
@@ -50,42 +52,153 @@ type mode struct {
 	split []mode
 }
 
-// modal is a time response as a sum of modes.
+// modal is a time response as a sum of modes, with its Taylor series at
+// t = 0 for early times.
 type modal struct {
 	modes []mode
+	// Early times: y(t) = Σₖ taylor[k]·(ρt)^k for ρt < taylorEnd, ρ the
+	// largest pole magnitude. See taylorSeries.
+	rho, taylorEnd float64
+	taylor         []float64
 }
 
-// at evaluates the response at t ≥ 0.
+// at evaluates the response at t ≥ 0. Where the Taylor series at t = 0
+// applies, the sum (series or modes) with the smaller sum of term
+// magnitudes is used: each one's rounding error is ε times that sum.
 func (m modal) at(t float64) float64 {
-	var y float64
-	for i := range m.modes {
-		md := &m.modes[i]
-		if md.r > 0 && t*md.r > 1 {
-			for j := range md.split {
-				y += md.split[j].eval(t)
-			}
-			continue
+	y, mag := m.modesAt(t)
+	if x := m.rho * t; x < m.taylorEnd {
+		var v, a float64
+		for k := len(m.taylor) - 1; k >= 0; k-- {
+			v = v*x + m.taylor[k]
+			a = a*x + math.Abs(m.taylor[k])
 		}
-		y += md.eval(t)
+		if a < mag {
+			return v
+		}
 	}
 	return y
 }
 
-// eval is the weighted real part of e^{pt}·Σ c[k]·t^k.
-func (md *mode) eval(t float64) float64 {
+// modesAt returns the sum of the modes at t and the sum of the magnitudes
+// of their terms.
+func (m modal) modesAt(t float64) (y, mag float64) {
+	for i := range m.modes {
+		md := &m.modes[i]
+		if md.r > 0 && t*md.r > 1 {
+			for j := range md.split {
+				v, a := md.split[j].eval(t)
+				y, mag = y+v, mag+a
+			}
+			continue
+		}
+		v, a := md.eval(t)
+		y, mag = y+v, mag+a
+	}
+	return y, mag
+}
+
+// eval is the weighted real part of e^{pt}·Σ c[k]·t^k and the weighted
+// e^{Re p·t}·Σ |c[k]|·t^k.
+func (md *mode) eval(t float64) (v, mag float64) {
 	e := math.Exp(real(md.p) * t)
 	if e == 0 {
-		return 0
+		return 0, 0
 	}
 	var poly complex128
+	var a float64
 	for k := len(md.c) - 1; k >= 0; k-- {
 		poly = poly*complex(t, 0) + md.c[k]
+		a = a*t + cmplx.Abs(md.c[k])
 	}
+	mag = md.w * e * a
 	if imag(md.p) == 0 {
-		return md.w * e * real(poly)
+		return md.w * e * real(poly), mag
 	}
 	s, c := math.Sincos(imag(md.p) * t)
-	return md.w * e * (c*real(poly) - s*imag(poly))
+	return md.w * e * (c*real(poly) - s*imag(poly)), mag
+}
+
+// Taylor series at t = 0 (see taylorSeries).
+const (
+	taylorMaxX  = 8   // the series is tried for ρt < 8 at most
+	taylorTerms = 170 // k! stays finite
+)
+
+// taylorSeries returns the Taylor coefficients in x = ρt of the impulse
+// response (regular part) or, when step is true, of the step response:
+// with H(s) = Σₖ Mₖ s^{−k} about s = ∞ (the Markov parameters), the step
+// response is Σₖ Mₖ t^k/k! and the impulse response Σₖ M_{k+1} t^k/k!.
+// With w = ρ/s and poles and zeros scaled by 1/ρ, H = K·ρ^{−r}·w^r·
+// Π(1 − z̃w)/Π(1 − p̃w), r = poles − zeros, whose coefficients aⱼ are built
+// by series multiplication and division with |p̃| ≤ 1. The series is cut
+// where its terms at x = taylorEnd fall below 1e-18 of the largest, and
+// taylorEnd is lowered from taylorMaxX until that happens within
+// taylorTerms terms. The modal sum loses accuracy at early times when the
+// residues are large and cancel (high orders, Bessel, Butterworth), exactly
+// where this series needs few terms and its own terms do not cancel much.
+func taylorSeries(gain float64, zeros, poles []complex128, step bool) (rho, end float64, coef []float64) {
+	rho = scaleOf(poles)
+	if rho == 0 || len(poles) == 0 {
+		return 0, 0, nil
+	}
+	r := len(poles) - len(zeros)
+	kn := gain // K·ρ^{−r}, interleaved with the scaled products below
+	a := make([]complex128, taylorTerms+1)
+	a[0] = 1
+	for i := range max(len(zeros), len(poles)) {
+		if i < len(zeros) {
+			z := zeros[i] / complex(rho, 0)
+			for j := taylorTerms; j >= 1; j-- {
+				a[j] -= z * a[j-1]
+			}
+		}
+		if i < len(poles) {
+			p := poles[i] / complex(rho, 0)
+			for j := 1; j <= taylorTerms; j++ {
+				a[j] += p * a[j-1]
+			}
+			if i >= len(zeros) {
+				kn /= rho
+			}
+		}
+	}
+	// Coefficient of x^k: step K·ρ^{−r}·a_{k−r}/k!; impulse the same with
+	// k+1, times ρ (dy/dt = ρ·dy/dx).
+	off := 0
+	scale := kn
+	if !step {
+		off = 1
+		scale *= rho
+	}
+	coef = make([]float64, 0, taylorTerms)
+	fact := 1.0
+	for k := 0; k < taylorTerms-1; k++ {
+		if k > 0 {
+			fact *= float64(k)
+		}
+		j := k + off - r
+		c := 0.0
+		if j >= 0 && j <= taylorTerms {
+			c = scale * real(a[j]) / fact
+		}
+		coef = append(coef, c)
+	}
+	for end = taylorMaxX; end >= 0.5; end /= 2 {
+		var big float64
+		for k, c := range coef {
+			big = math.Max(big, math.Abs(c)*math.Pow(end, float64(k)))
+		}
+		for k := len(coef) - 1; k >= 0; k-- {
+			if math.Abs(coef[k])*math.Pow(end, float64(k)) > 1e-18*big {
+				if k < len(coef)-8 {
+					return rho, end, coef[:k+1]
+				}
+				break
+			}
+		}
+	}
+	return 0, 0, nil
 }
 
 // symmetric returns the roots made exactly conjugate-symmetric (real roots
@@ -212,6 +325,8 @@ func newModal(h filter.Transfer, step bool) (modal, error) {
 		md.w, md.split = w, split
 		m.modes = append(m.modes, md)
 	}
+	hp, _ := symmetric(h.Poles)
+	m.rho, m.taylorEnd, m.taylor = taylorSeries(h.Gain, zeros, hp, step)
 	return m, nil
 }
 
