@@ -193,9 +193,16 @@ type specJSON struct {
 // elements. It does not validate the mask; an unknown Band or a non-finite
 // number is an error (wrapping ErrSpec).
 func (s Spec) MarshalJSON() ([]byte, error) {
-	for _, v := range []float64{s.PassHz[0], s.PassHz[1], s.StopHz[0], s.StopHz[1], s.RippleDB, s.AttenDB} {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("filter: spec value %g not finite, no JSON for it: %w", v, ErrSpec)
+	if _, err := s.Band.MarshalJSON(); err != nil {
+		return nil, err
+	}
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{{"PassHz[0]", s.PassHz[0]}, {"PassHz[1]", s.PassHz[1]}, {"StopHz[0]", s.StopHz[0]}, {"StopHz[1]", s.StopHz[1]},
+		{"RippleDB", s.RippleDB}, {"AttenDB", s.AttenDB}} {
+		if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
+			return nil, fmt.Errorf("filter: spec %s %g not finite, no JSON for it: %w", f.name, f.v, ErrSpec)
 		}
 	}
 	b := s.Band
@@ -257,9 +264,15 @@ type stageJSON struct {
 // "zero_hz": z, "gain": g}. It does not validate the stage; an unknown kind
 // or a non-finite number is an error (wrapping ErrStage).
 func (s Stage) MarshalJSON() ([]byte, error) {
-	for _, v := range []float64{s.F0Hz, s.Q, s.ZeroHz, s.Gain} {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("filter: stage value %g not finite, no JSON for it: %w", v, ErrStage)
+	if _, err := s.Kind.MarshalJSON(); err != nil {
+		return nil, err
+	}
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{{"F0Hz", s.F0Hz}, {"Q", s.Q}, {"ZeroHz", s.ZeroHz}, {"Gain", s.Gain}} {
+		if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
+			return nil, fmt.Errorf("filter: stage %s %g not finite, no JSON for it: %w", f.name, f.v, ErrStage)
 		}
 	}
 	k := s.Kind
