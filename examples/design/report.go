@@ -12,25 +12,7 @@ import (
 )
 
 // hz formats a frequency in engineering notation ("1.23 kHz").
-func hz(f float64) string { return series.Format{Digits: 4}.Value(f, "Hz") }
-
-// maskLine describes a mask in words.
-func maskLine(m filter.Spec) string {
-	switch m.Band {
-	case filter.Lowpass:
-		return fmt.Sprintf("lowpass: pass 0 to %s within %g dB, stop from %s at least %g dB down",
-			hz(m.PassHz[0]), m.RippleDB, hz(m.StopHz[0]), m.AttenDB)
-	case filter.Highpass:
-		return fmt.Sprintf("highpass: pass from %s within %g dB, stop below %s at least %g dB down",
-			hz(m.PassHz[0]), m.RippleDB, hz(m.StopHz[0]), m.AttenDB)
-	case filter.Bandpass:
-		return fmt.Sprintf("bandpass: pass %s to %s within %g dB, stop below %s and above %s at least %g dB down",
-			hz(m.PassHz[0]), hz(m.PassHz[1]), m.RippleDB, hz(m.StopHz[0]), hz(m.StopHz[1]), m.AttenDB)
-	default:
-		return fmt.Sprintf("bandstop: pass below %s and above %s within %g dB, stop %s to %s at least %g dB down",
-			hz(m.PassHz[0]), hz(m.PassHz[1]), m.RippleDB, hz(m.StopHz[0]), hz(m.StopHz[1]), m.AttenDB)
-	}
-}
+func hz(f float64) string { return pipeline.FormatHz(f) }
 
 // report prints the design to w.
 func report(w io.Writer, r pipeline.Result, dir string, files []string) error {
@@ -43,7 +25,7 @@ func report(w io.Writer, r pipeline.Result, dir string, files []string) error {
 		title = "filter design"
 	}
 	p("Rolloff: %s\n", title)
-	p("Mask    %s\n", maskLine(q.Mask))
+	p("Mask    %s\n", pipeline.MaskText(q.Mask))
 	p("Policy  resistors %s (%g %%), capacitors %s (%g %%), circuits %s, design margin %g dB, yield target %g %%\n\n",
 		q.ResistorSeries, q.ResistorTolPct, q.CapacitorSeries, q.CapacitorTolPct, q.Kind, *q.MarginDB, q.MinYieldPct)
 
