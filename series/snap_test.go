@@ -323,3 +323,21 @@ func achieved(c topology.Circuit, ev evalFunc, values []float64) (filter.Stage, 
 	}
 	return st, nil
 }
+
+// TestSnapBoundedSearch forces both searches past MaxCombos (coordinate
+// descent per stage and across stages): the promise holds.
+func TestSnapBoundedSearch(t *testing.T) {
+	ch := antiAlias(t)
+	small, err := Snap(ch, Policy{MaxCombos: 8, Radius: 3, Passband: antiAliasBand})
+	if err != nil {
+		t.Fatal(err)
+	}
+	full, err := Snap(ch, Policy{Radius: 3, Passband: antiAliasBand})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("MaxCombos 8: %.4f dB, 4096: %.4f dB, rounded %.4f dB", small.WorstDB, full.WorstDB, full.RoundedDB)
+	if small.WorstDB > small.RoundedDB || full.WorstDB > full.RoundedDB {
+		t.Errorf("worse than rounding: %g, %g vs %g", small.WorstDB, full.WorstDB, full.RoundedDB)
+	}
+}

@@ -1,0 +1,154 @@
+package series
+
+import (
+	"fmt"
+	"math"
+	"runtime"
+	"sync"
+	"testing"
+
+	"github.com/rolloff/rolloff/filter"
+	"github.com/rolloff/rolloff/topology"
+	"gonum.org/v1/gonum/floats"
+)
+
+// perfChain realizes the 8-pole Chebyshev bandpass of an invented 40 kHz
+// ultrasonic receiver mask (36 to 44 kHz within 1 dB, 40 dB down below
+// 28 kHz and above 56 kHz): four multiple-feedback bandpass stages, the
+// chain the Monte Carlo figures are measured on.
+func perfChain(tb testing.TB) topology.Chain {
+	tb.Helper()
+	h, err := filter.Design(filter.Chebyshev{}, filter.Spec{Band: filter.Bandpass,
+		PassHz: [2]float64{36e3, 44e3}, StopHz: [2]float64{28e3, 56e3}, RippleDB: 1, AttenDB: 40})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	st, err := h.Stages()
+	if err != nil {
+		tb.Fatal(err)
+	}
+	ch, err := topology.Realize(st, topology.Options{})
+	if err != nil {
+		tb.Fatal(err)
+	}
+	if len(ch.Circuits) != 4 {
+		tb.Fatalf("chain of %d circuits, want 4", len(ch.Circuits))
+	}
+	return ch
+}
+
+// perfHz is n log-spaced analysis frequencies from 10 kHz to 160 kHz.
+func perfHz(n int) []float64 { return floats.LogSpan(make([]float64, n), 10e3, 160e3) }
+
+// floorPower is the arithmetic floor of a gain-only Monte Carlo: for every
+// trial and frequency the product over stages of
+// |H(jω)|² = ((n0 − n2ω²)² + (n1ω)²) / ((d0 − d2ω²)² + (d1ω)²) from
+// coefficients computed beforehand (coef: trials × stages), on workers
+// goroutines, each trial's powers written to its own row of pw. It is what
+// a Monte Carlo would cost if drawing the parts and analysing the circuits
+// were free.
+func floorPower(coef []bq, stages int, w2 []float64, pw []float64, workers int) {
+	trials := len(coef) / stages
+	nf := len(w2)
+	var wg sync.WaitGroup
+	for k := range workers {
+		lo, hi := k*trials/workers, (k+1)*trials/workers
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := lo; i < hi; i++ {
+				cs := coef[i*stages : (i+1)*stages]
+				row := pw[i*nf : (i+1)*nf]
+				for j, x := range w2 {
+					p := 1.0
+					for _, c := range cs {
+						nr := c.n0 - c.n2*x
+						dr := c.d0 - c.d2*x
+						p *= (nr*nr + c.n1*c.n1*x) / (dr*dr + c.d1*c.d1*x)
+					}
+					row[j] = p
+				}
+			}
+		}()
+	}
+	wg.Wait()
+}
+
+// perfCoefficients draws trials sets of part values for every stage of
+// chain (uniform within the customary tolerances: 1 % resistors, 5 %
+// capacitors) and returns their coefficients, trials × stages.
+func perfCoefficients(tb testing.TB, chain topology.Chain, trials int) []bq {
+	tb.Helper()
+	var coef []bq
+	st := newStream()
+	for i := range trials {
+		st.reset(1, uint64(i))
+		for _, c := range chain.Circuits {
+			ev, err := newStageEval(c)
+			if err != nil {
+				tb.Fatal(err)
+			}
+			v := make([]float64, len(c.Parts))
+			for k, p := range c.Parts {
+				tol := 0.01
+				if p.Ref[0] == 'C' {
+					tol = 0.05
+				}
+				v[k] = p.Value * (1 + tol*(2*st.r.Float64()-1))
+			}
+			b, err := ev(v)
+			if err != nil {
+				tb.Fatal(err)
+			}
+			coef = append(coef, b)
+		}
+	}
+	return coef
+}
+
+// BenchmarkPerfMonteCarlo measures Analysis.MonteCarlo (gain only, with
+// the yield against the chain's mask) of the 4-stage chain on all cores,
+// at 10,000 trials and 50, 200 and 800 frequencies, beside the arithmetic
+// floor of the same size (floorPower). Both report ns per
+// (trial × frequency × stage); the Monte Carlo's also its ratio to the
+// floor measured just before it.
+func BenchmarkPerfMonteCarlo(b *testing.B) {
+	chain := perfChain(b)
+	const trials = 10000
+	spec := filter.Spec{Band: filter.Bandpass, PassHz: [2]float64{36e3, 44e3}, StopHz: [2]float64{28e3, 56e3}, RippleDB: 1, AttenDB: 40}
+	coef := perfCoefficients(b, chain, trials)
+	ns := len(chain.Circuits)
+	for _, nf := range []int{50, 200, 800} {
+		hz := perfHz(nf)
+		w2 := make([]float64, nf)
+		for j, f := range hz {
+			w2[j] = (2 * math.Pi * f) * (2 * math.Pi * f)
+		}
+		pw := make([]float64, trials*nf)
+		cells := float64(trials * nf * ns)
+		var floorNs float64
+		b.Run(fmt.Sprintf("floor/%d", nf), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				floorPower(coef, ns, w2, pw, runtime.GOMAXPROCS(0))
+			}
+			floorNs = float64(b.Elapsed().Nanoseconds()) / float64(b.N) / cells
+			b.ReportMetric(floorNs, "ns/cell")
+		})
+		b.Run(fmt.Sprintf("montecarlo/%d", nf), func(b *testing.B) {
+			a := Analysis{Trials: trials, Seed: 7, Hz: hz, Spec: &spec}
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := a.MonteCarlo(chain); err != nil {
+					b.Fatal(err)
+				}
+			}
+			per := float64(b.Elapsed().Nanoseconds()) / float64(b.N) / cells
+			b.ReportMetric(per, "ns/cell")
+			b.ReportMetric(float64(trials)/(float64(b.Elapsed().Seconds())/float64(b.N)), "trials/s")
+			if floorNs > 0 {
+				b.ReportMetric(per/floorNs, "x-floor")
+			}
+		})
+	}
+}
