@@ -146,6 +146,15 @@ func TestSensitivitySallenKey(t *testing.T) {
 	if math.Abs(sumQR) > 1e-7 || math.Abs(sumQC) > 1e-7 {
 		t.Errorf("ΣS(Q) over R = %g, over C = %g; want 0", sumQR, sumQC)
 	}
+	// Unity-gain lowpass, Q = √(R1R2C1C2)/(C2(R1+R2)): S(Q, C1) = +1/2,
+	// S(Q, C2) = −1/2, S(Q, R1) = −S(Q, R2) = 1/2 − R1/(R1+R2) (same source).
+	r1, r2 := c.Parts[0].Value, c.Parts[1].Value
+	wantQ := map[string]float64{"R1": 0.5 - r1/(r1+r2), "R2": -(0.5 - r1/(r1+r2)), "C1": 0.5, "C2": -0.5}
+	for _, s := range ss {
+		if math.Abs(s.Q-wantQ[s.Ref]) > 1e-7 {
+			t.Errorf("S(Q, %s) = %g, want %g", s.Ref, s.Q, wantQ[s.Ref])
+		}
+	}
 	// Equal-component circuit: S of Q to K is 3Q − 1 (from memory of the
 	// same source); here via the gain pair: Q depends on Rf, Rg through K =
 	// 1 + Rf/Rg, so S(Q, Rf) = (3Q − 1)·(K − 1)/K.

@@ -150,3 +150,51 @@ func FuzzRealize(f *testing.F) {
 		}
 	})
 }
+
+// FuzzCircuitValues feeds arbitrary part values to a state-variable notch
+// circuit (the largest template): the analysis paths must return a value or
+// an error, never panic, and agree with each other when they succeed.
+func FuzzCircuitValues(f *testing.F) {
+	c, err := RealizeStage(filter.Stage{Kind: filter.NotchStage, Order: 2, F0Hz: 1e3, Q: 2, ZeroHz: 1.3e3, Gain: 1}, Options{})
+	if err != nil {
+		f.Fatal(err)
+	}
+	v := c.Values()
+	f.Add(1.0, 1.0, 1.0, 1.0, 0.0)
+	f.Add(1e-30, 1e30, 1.0, -1.0, 3.0)
+	f.Add(math.Inf(1), 1.0, math.NaN(), 1.0, 1e5)
+	f.Fuzz(func(t *testing.T, a, b, cc, d, fHz float64) {
+		w := append([]float64(nil), v...)
+		w[0] *= a
+		w[3] *= b
+		w[6] *= cc
+		w[len(w)-1] *= d
+		x, err := c.WithValues(w)
+		if err != nil {
+			if _, err2 := c.BiquadOf(w); err2 == nil {
+				t.Fatal("BiquadOf accepted values WithValues refused")
+			}
+			return
+		}
+		h := x.AtHz(fHz)
+		bq, err := x.Biquad()
+		if err != nil {
+			return
+		}
+		if _, err := x.Achieved(); err != nil && !errors.Is(err, ErrUnrealizable) {
+			t.Fatalf("Achieved: %v", err)
+		}
+		if !cmplxIsFinite(h) || math.IsNaN(fHz) || math.IsInf(fHz, 0) {
+			return
+		}
+		if math.Abs(a-1)+math.Abs(b-1)+math.Abs(cc-1)+math.Abs(d-1) < 1 && fHz > 10 && fHz < 1e5 {
+			if e := cmplxAbs(bq.AtHz(fHz)-h) / (cmplxAbs(h) + 1e-3); e > 1e-6 {
+				t.Fatalf("Biquad %v vs AtHz %v", bq.AtHz(fHz), h)
+			}
+		}
+	})
+}
+
+func cmplxIsFinite(z complex128) bool {
+	return !math.IsNaN(real(z)) && !math.IsNaN(imag(z)) && !math.IsInf(real(z), 0) && !math.IsInf(imag(z), 0)
+}

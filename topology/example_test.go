@@ -85,3 +85,19 @@ func ExampleEvaluator_Achieved() {
 	// Output:
 	// f0 497.52 Hz, Q 0.7091
 }
+
+// Sensitivities of a unity-gain Sallen-Key lowpass: f0 moves by half of
+// any part's relative change, the gain by none.
+func ExampleCircuit_Sensitivities() {
+	st := filter.Stage{Kind: filter.LowpassStage, Order: 2, F0Hz: 800, Q: 0.6, Gain: 1}
+	c, _ := topology.RealizeStage(st, topology.Options{Kind: topology.SallenKey})
+	ss, _ := c.Sensitivities()
+	for _, s := range ss {
+		fmt.Printf("%s: f0 %+.3f  Q %+.3f  gain %+.3f\n", s.Ref, s.F0, s.Q, math.Abs(s.Gain))
+	}
+	// Output:
+	// R1: f0 -0.500  Q +0.289  gain +0.000
+	// R2: f0 -0.500  Q -0.289  gain +0.000
+	// C1: f0 -0.500  Q +0.500  gain +0.000
+	// C2: f0 -0.500  Q -0.500  gain +0.000
+}
