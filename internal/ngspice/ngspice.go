@@ -20,7 +20,7 @@ const Program = "ngspice"
 
 // Timeout bounds one ngspice run. A run that takes longer is killed and
 // reported as an error wrapping ErrRun.
-var Timeout = 60 * time.Second
+const Timeout = 60 * time.Second
 
 // Sentinel errors; every error of this package wraps one of them.
 var (
