@@ -56,67 +56,100 @@ type mode struct {
 // t = 0 for early times.
 type modal struct {
 	modes []mode
-	// Early times: y(t) = Σₖ taylor[k]·(ρt)^k for ρt < taylorEnd, ρ the
-	// largest pole magnitude. See taylorSeries.
+	// Early times: y(t) = Σₖ taylor[k]·(ρt)^k for ρt ≤ taylorEnd, ρ the
+	// largest pole magnitude. See taylorSeries and crossover.
 	rho, taylorEnd float64
 	taylor         []float64
 }
 
-// at evaluates the response at t ≥ 0. Where the Taylor series at t = 0
-// applies, the sum (series or modes) with the smaller sum of term
-// magnitudes is used: each one's rounding error is ε times that sum.
+// at evaluates the response at t ≥ 0: by the Taylor series at t = 0 up to
+// ρt = taylorEnd, by the modal sum beyond.
 func (m modal) at(t float64) float64 {
-	y, mag := m.modesAt(t)
-	if x := m.rho * t; x < m.taylorEnd {
-		var v, a float64
-		for k := len(m.taylor) - 1; k >= 0; k-- {
-			v = v*x + m.taylor[k]
-			a = a*x + math.Abs(m.taylor[k])
-		}
-		if a < mag {
-			return v
-		}
+	if x := m.rho * t; m.taylor != nil && x <= m.taylorEnd {
+		v, _ := m.series(x)
+		return v
 	}
-	return y
-}
-
-// modesAt returns the sum of the modes at t and the sum of the magnitudes
-// of their terms.
-func (m modal) modesAt(t float64) (y, mag float64) {
+	var y float64
 	for i := range m.modes {
 		md := &m.modes[i]
 		if md.r > 0 && t*md.r > 1 {
 			for j := range md.split {
-				v, a := md.split[j].eval(t)
-				y, mag = y+v, mag+a
+				y += md.split[j].eval(t)
 			}
 			continue
 		}
-		v, a := md.eval(t)
-		y, mag = y+v, mag+a
+		y += md.eval(t)
 	}
-	return y, mag
+	return y
 }
 
-// eval is the weighted real part of e^{pt}·Σ c[k]·t^k and the weighted
-// e^{Re p·t}·Σ |c[k]|·t^k.
-func (md *mode) eval(t float64) (v, mag float64) {
+// series returns the Taylor series at x = ρt and the sum of the
+// magnitudes of its terms.
+func (m modal) series(x float64) (v, mag float64) {
+	for k := len(m.taylor) - 1; k >= 0; k-- {
+		v = v*x + m.taylor[k]
+		mag = mag*x + math.Abs(m.taylor[k])
+	}
+	return v, mag
+}
+
+// modesMag returns the sum of the magnitudes of the modal terms at t, the
+// size of the rounding of the modal sum.
+func (m modal) modesMag(t float64) float64 {
+	var mag float64
+	for i := range m.modes {
+		md := &m.modes[i]
+		if md.r > 0 && t*md.r > 1 {
+			for j := range md.split {
+				mag += md.split[j].mag(t)
+			}
+			continue
+		}
+		mag += md.mag(t)
+	}
+	return mag
+}
+
+// eval is the weighted real part of e^{pt}·Σ c[k]·t^k.
+func (md *mode) eval(t float64) float64 {
 	e := math.Exp(real(md.p) * t)
 	if e == 0 {
-		return 0, 0
+		return 0
 	}
 	var poly complex128
-	var a float64
 	for k := len(md.c) - 1; k >= 0; k-- {
 		poly = poly*complex(t, 0) + md.c[k]
-		a = a*t + cmplx.Abs(md.c[k])
 	}
-	mag = md.w * e * a
 	if imag(md.p) == 0 {
-		return md.w * e * real(poly), mag
+		return md.w * e * real(poly)
 	}
 	s, c := math.Sincos(imag(md.p) * t)
-	return md.w * e * (c*real(poly) - s*imag(poly)), mag
+	return md.w * e * (c*real(poly) - s*imag(poly))
+}
+
+// mag is the weighted e^{Re p·t}·Σ |c[k]|·t^k.
+func (md *mode) mag(t float64) float64 {
+	var a float64
+	for k := len(md.c) - 1; k >= 0; k-- {
+		a = a*t + cmplx.Abs(md.c[k])
+	}
+	return md.w * math.Exp(real(md.p)*t) * a
+}
+
+// crossover returns the largest x = ρt on a grid of taylorEnd/64 steps up
+// to which the Taylor series' terms sum to less than the modal terms (so
+// that its rounding is smaller), starting at x = 0 where the series is
+// exact (y(0) is its first coefficient).
+func (m modal) crossover() float64 {
+	cross := 0.0
+	for i := 1; i <= 64; i++ {
+		x := m.taylorEnd * float64(i) / 64
+		if _, a := m.series(x); a >= m.modesMag(x/m.rho) {
+			break
+		}
+		cross = x
+	}
+	return cross
 }
 
 // Taylor series at t = 0 (see taylorSeries).
@@ -327,6 +360,9 @@ func newModal(h filter.Transfer, step bool) (modal, error) {
 	}
 	hp, _ := symmetric(h.Poles)
 	m.rho, m.taylorEnd, m.taylor = taylorSeries(h.Gain, zeros, hp, step)
+	if m.taylor != nil {
+		m.taylorEnd = m.crossover()
+	}
 	return m, nil
 }
 
