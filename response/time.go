@@ -38,8 +38,9 @@ func Step(h filter.Transfer, t []float64) ([]float64, error) {
 //
 // At early times, where the residues of high orders are large and cancel,
 // the Taylor series of the response at t = 0 (from the Markov parameters,
-// the expansion of H about s = ∞) is used instead whenever the magnitudes
-// of its terms sum to less than those of the modal terms.
+// the expansion of H about s = ∞) is used instead, up to the time where
+// the magnitudes of its terms first sum to more than those of the modal
+// terms (each sum's rounding error is ε times that magnitude).
 //
 // Accuracy, relative to the response's peak: rounding (≤ 3e-13, mostly
 // ≈ 1e-15) for every family up to order 20 against the residue sum in
