@@ -72,9 +72,10 @@ func Sweep(s System, hz []float64) []Point {
 // the central difference −arg(H(f+h)/H(f−h)) / (2·2π·h) with h =
 // NumericDelayStep·|f| (at f = 0, NumericDelayStep times the distance to the
 // nearest other grid frequency, or 1 mHz when there is none), Richardson
-// extrapolated over h, h/2, h/4 (truncation error O(h⁶)). Where the nearest
-// pole or zero lies at least 1 % of f away from j2πf this agrees with the
-// exact delay to about 1e-9 relative (tested).
+// extrapolated over h, h/2, h/4 (truncation error O(h⁶)). Relative to
+// |τ| + 1/ω, it agrees with the exact delay to 2e-9 where the nearest pole
+// or zero lies 1 % of f away from j2πf, 3e-11 at 2 % and 6e-13 from 5 % on
+// (tested).
 //
 // Special cases are: a NaN frequency gives a point of NaNs (the unwrapping
 // continues from the previous point); |H| = 0 gives GainDB = −Inf.
