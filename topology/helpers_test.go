@@ -5,6 +5,7 @@ import (
 	"math/cmplx"
 
 	"github.com/rolloff/rolloff/filter"
+	"github.com/rolloff/rolloff/response"
 	"pgregory.net/rapid"
 )
 
@@ -93,3 +94,10 @@ func passLevel(st filter.Stage) float64 {
 }
 
 func cmplxAbs(z complex128) float64 { return math.Hypot(real(z), imag(z)) }
+
+// Circuits and chains are response.Systems (compile-time check).
+var (
+	_ response.System = Circuit{}
+	_ response.System = Chain{}
+	_ response.System = Biquad{}
+)
