@@ -115,7 +115,8 @@ func (p *mcPlan) work(next *atomic.Int64, nblocks int, db []float64, blocks []bl
 		evals[s] = stg.newEval()
 		vals[s] = padded(len(stg.nominal))
 	}
-	pw := padded(nf)
+	num := padded(nf)
+	den := padded(nf)
 	row := padded(nf)
 	needDB := p.keepDB || p.moments
 	for {
@@ -128,7 +129,7 @@ func (p *mcPlan) work(next *atomic.Int64, nblocks int, db []float64, blocks []bl
 			bs = &blocks[b]
 		}
 		for i := b * blockSize; i < min((b+1)*blockSize, p.trials); i++ {
-			ok := p.trial(st, uint64(i), evals, vals, pw)
+			ok := p.trial(st, uint64(i), evals, vals, num, den)
 			if !ok {
 				failed++
 				if db != nil {
@@ -140,7 +141,8 @@ func (p *mcPlan) work(next *atomic.Int64, nblocks int, db []float64, blocks []bl
 			}
 			pass := true
 			for _, j := range p.checked {
-				if !(pw[j] >= p.loP[j] && pw[j] <= p.hiP[j]) {
+				// lo <= num/den <= hi without dividing (den > 0).
+				if !(num[j] >= p.loP[j]*den[j] && num[j] <= p.hiP[j]*den[j]) {
 					pass = false
 					break
 				}
@@ -151,8 +153,8 @@ func (p *mcPlan) work(next *atomic.Int64, nblocks int, db []float64, blocks []bl
 			if !needDB {
 				continue
 			}
-			for j, x := range pw {
-				row[j] = 10 * math.Log10(x)
+			for j := range row {
+				row[j] = 10 * math.Log10(num[j]/den[j])
 			}
 			if db != nil {
 				copy(db[i*nf:(i+1)*nf], row)
@@ -172,12 +174,19 @@ func (p *mcPlan) work(next *atomic.Int64, nblocks int, db []float64, blocks []bl
 }
 
 // trial draws trial i's part values, evaluates every stage and leaves
-// |H(jω)|² of the chain in pw. It reports false when a drawn value is not
-// positive or a stage cannot be evaluated.
-func (p *mcPlan) trial(st stream, i uint64, evals []evalFunc, vals [][]float64, pw []float64) bool {
+// |H(jω)|² of the chain in num/den (numerator and denominator products over
+// the stages, both positive, divided only where needed). It reports false
+// when a drawn value is not positive or a stage cannot be evaluated.
+//
+// Each stage's coefficients are scaled by 1/d0 first (the same factor top
+// and bottom, so |H|² is unchanged), which keeps the products near 1 at low
+// frequencies; where a product still leaves the normal range (many stages
+// far from their f0), that frequency is recomputed stage by stage with a
+// division each.
+func (p *mcPlan) trial(st stream, i uint64, evals []evalFunc, vals [][]float64, num, den []float64) bool {
 	st.reset(p.seed, i)
-	for j := range pw {
-		pw[j] = 1
+	for j := range num {
+		num[j], den[j] = 1, 1
 	}
 	for s, stg := range p.stages {
 		v := vals[s]
@@ -197,11 +206,51 @@ func (p *mcPlan) trial(st stream, i uint64, evals []evalFunc, vals [][]float64, 
 		if err != nil {
 			return false
 		}
+		c = c.scaled()
+		n0, n1s, n2 := c.n0, c.n1*c.n1, c.n2
+		d0, d1s, d2 := c.d0, c.d1*c.d1, c.d2
 		for j, w2 := range p.w2 {
-			pw[j] *= c.power(w2)
+			nr := n0 - n2*w2
+			dr := d0 - d2*w2
+			num[j] *= nr*nr + n1s*w2
+			den[j] *= dr*dr + d1s*w2
+		}
+	}
+	for j := range num {
+		if !(den[j] >= minNormal && den[j] <= math.MaxFloat64 && num[j] <= math.MaxFloat64) {
+			p.slowPower(evals, vals, j, num, den)
 		}
 	}
 	return true
+}
+
+// scaled returns b with every coefficient divided by d0 (or by d1 when d0
+// is 0), which leaves H unchanged.
+func (b bq) scaled() bq {
+	k := b.d0
+	if k == 0 {
+		k = b.d1
+	}
+	if k == 0 {
+		return b
+	}
+	k = 1 / k
+	return bq{b.n0 * k, b.n1 * k, b.n2 * k, b.d0 * k, b.d1 * k, b.d2 * k}
+}
+
+// slowPower recomputes |H|² at frequency j as a product of per-stage ratios
+// (the values in vals are the trial's), leaving it in num[j] with den[j] = 1.
+func (p *mcPlan) slowPower(evals []evalFunc, vals [][]float64, j int, num, den []float64) {
+	pw := 1.0
+	for s := range p.stages {
+		c, err := evals[s](vals[s])
+		if err != nil {
+			pw = math.NaN()
+			break
+		}
+		pw *= c.power(p.w2[j])
+	}
+	num[j], den[j] = pw, 1
 }
 
 // padded returns a slice of n float64s with a cache line (or two) of

@@ -109,3 +109,33 @@ func TestTrialSeedsDistinct(t *testing.T) {
 		}
 	}
 }
+
+// TestCoreProductsLeaveRange: 20 first-order highpass stages far above
+// their corner make the numerator and denominator products overflow
+// (about (ωRC)^40 = 1e320 each) while |H|² stays near 1; the per-stage
+// fallback gives the right gain.
+func TestCoreProductsLeaveRange(t *testing.T) {
+	const rc = 1e-3
+	hp := mcStage{nominal: []float64{rc}, tol: []float64{0},
+		newEval: func() evalFunc {
+			return func(v []float64) (bq, error) { return bq{n1: v[0], d0: 1, d1: v[0]}, nil }
+		}}
+	p := &mcPlan{trials: 3, workers: 1, moments: true}
+	for range 20 {
+		p.stages = append(p.stages, hp)
+	}
+	for _, f := range []float64{1e2, 1e10} {
+		w := 2 * math.Pi * f
+		p.w2 = append(p.w2, w*w)
+		p.loP = append(p.loP, 0)
+		p.hiP = append(p.hiP, math.Inf(1))
+	}
+	out := p.run()
+	for j, w2 := range p.w2 {
+		a2 := w2 * rc * rc
+		want := 20 * 10 * math.Log10(a2/(1+a2))
+		if math.Abs(out.mean[j]-want) > 1e-9*math.Max(1, math.Abs(want)) {
+			t.Errorf("f[%d]: %v dB, want %v dB", j, out.mean[j], want)
+		}
+	}
+}
