@@ -76,3 +76,40 @@ func FuzzStep(f *testing.F) {
 		}
 	})
 }
+
+// FuzzStepTransfer: any poles, zero, gain and time give a step and an
+// impulse response or a matchable error, never a panic; a stable system's
+// values are finite.
+func FuzzStepTransfer(f *testing.F) {
+	f.Add(-1.0, 2.0, -1.0, -3.0, 1.0, 0.5)
+	f.Add(-1.0, 0.0, -1.0, -1.0, 1.0, 0.0)            // triple real pole
+	f.Add(-1e-300, 1e-300, 0.0, 1e300, 1e-300, 1e300) // extremes
+	f.Add(math.NaN(), 1.0, -1.0, 0.0, 1.0, 1.0)
+	f.Add(1.0, 1.0, 2.0, 0.0, 1.0, 3.0) // unstable
+	f.Fuzz(func(t *testing.T, re, im, real2, zero, gain, at float64) {
+		h := filter.Transfer{
+			Poles: []complex128{complex(re, im), complex(re, -im), complex(real2, 0)},
+			Zeros: []complex128{complex(zero, 0)},
+			Gain:  gain,
+		}
+		y, err := Step(h, []float64{0, at})
+		if err != nil {
+			if !errors.Is(err, ErrGrid) && !errors.Is(err, ErrSystem) {
+				t.Fatalf("unmatchable error %v", err)
+			}
+			return
+		}
+		if _, _, err := Impulse(h, []float64{0, at}); err != nil {
+			t.Fatalf("Step accepted what Impulse rejects: %v", err)
+		}
+		stable := re < 0 && real2 < 0
+		if stable && math.Abs(gain) < 1e100 && math.Abs(re) > 1e-100 && math.Abs(real2) > 1e-100 &&
+			math.Abs(re) < 1e100 && math.Abs(im) < 1e100 && math.Abs(real2) < 1e100 && math.Abs(zero) < 1e100 {
+			for _, v := range y {
+				if math.IsNaN(v) {
+					t.Fatalf("NaN step response of a stable system %v at %v", h, []float64{0, at})
+				}
+			}
+		}
+	})
+}
