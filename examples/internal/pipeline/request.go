@@ -323,3 +323,41 @@ func jsonFieldErr(err error, prefix string) error {
 
 // DecodeRequestBytes is DecodeRequest on a byte slice.
 func DecodeRequestBytes(b []byte) (Request, error) { return DecodeRequest(bytes.NewReader(b)) }
+
+// DecodeRequestOnto reads one JSON request document from b onto a copy of
+// base: fields present in b replace base's, absent ones keep base's (a
+// board's defaults with a channel's own fields on top). Decoding is strict
+// as in DecodeRequest; field names in errors are prefixed with path (e.g.
+// "channels[2]") when path is not empty. base is not modified.
+func DecodeRequestOnto(base Request, b []byte, path string) (Request, error) {
+	r := base
+	r.Families = append([]string(nil), base.Families...)
+	if base.MarginDB != nil {
+		m := *base.MarginDB
+		r.MarginDB = &m
+	}
+	dec := json.NewDecoder(bytes.NewReader(b))
+	dec.DisallowUnknownFields()
+	if err := dec.Decode(&r); err != nil {
+		return Request{}, jsonFieldErr(err, path)
+	}
+	if dec.More() {
+		return Request{}, fieldErr(path, errors.New("trailing data after the JSON document"))
+	}
+	return r, nil
+}
+
+// WithPath returns err with its field path prefixed by path ("channels[1]"
+// + "mask" = "channels[1].mask") when err is a *FieldError; other errors
+// are returned as they are.
+func WithPath(err error, path string) error {
+	var fe *FieldError
+	if !errors.As(err, &fe) || path == "" {
+		return err
+	}
+	f := path
+	if fe.Field != "" {
+		f += "." + fe.Field
+	}
+	return &FieldError{Field: f, Err: fe.Err}
+}
