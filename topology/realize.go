@@ -106,7 +106,7 @@ func RealizeStage(st filter.Stage, opt Options) (Circuit, error) {
 
 func realizeStage(st filter.Stage, l limits) (Circuit, error) {
 	if err := st.Validate(); err != nil {
-		return Circuit{}, fmt.Errorf("topology: %w: %w", ErrStage, err)
+		return Circuit{}, fmt.Errorf("%w: %w", ErrStage, err)
 	}
 	k := l.kind
 	if k == Auto {

@@ -159,7 +159,7 @@ func register(ks *kindSpec) {
 // designFor returns the template realizing st with kind k (not Auto).
 func designFor(k Kind, st filter.Stage) (*design, error) {
 	if err := st.Validate(); err != nil {
-		return nil, fmt.Errorf("topology: %w: %w", ErrStage, err)
+		return nil, fmt.Errorf("%w: %w", ErrStage, err)
 	}
 	ks, ok := kindSpecs[k]
 	if !ok {

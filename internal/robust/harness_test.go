@@ -51,6 +51,9 @@ func runBad(t *testing.T, prefix string, rows []badInput) {
 		if prefix != "" && !strings.HasPrefix(err.Error(), prefix) {
 			t.Errorf("%s: error %q lacks the package prefix %q", r.reason, err, prefix)
 		}
+		if prefix != "" && strings.Contains(err.Error(), prefix+prefix) {
+			t.Errorf("%s: error %q repeats the package prefix", r.reason, err)
+		}
 	}
 }
 
