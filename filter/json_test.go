@@ -141,3 +141,42 @@ func TestJSONErrors(t *testing.T) {
 		}
 	}
 }
+
+// FuzzUnmarshalJSON: decoding any text into Spec, Transfer or Stage never
+// panics; it fails with ErrFormat (or a json syntax error) or gives a
+// value that re-encodes and decodes to itself.
+func FuzzUnmarshalJSON(f *testing.F) {
+	f.Add([]byte(`{"band":"bandpass","pass_hz":[1000,2000],"stop_hz":[500,4000],"ripple_db":1,"atten_db":40}`))
+	f.Add([]byte(`{"zeros":[[0,2],[0,-2]],"poles":[[-1,1],[-1,-1]],"gain":3}`))
+	f.Add([]byte(`{"kind":"notch","order":2,"f0_hz":1000,"q":2,"zero_hz":1500,"gain":1}`))
+	f.Add([]byte(`{"band":"lowpass","pass_hz":[1e308,2],"stop_hz":[-0],"ripple_db":1e-320,"atten_db":40}`))
+	f.Add([]byte(`null`))
+	f.Add([]byte(`{"poles":[[1]],"gain":1}`))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		check := func(v json.Unmarshaler, fresh func() json.Unmarshaler) {
+			if err := v.UnmarshalJSON(data); err != nil {
+				if !errors.Is(err, ErrFormat) {
+					t.Fatalf("%T: error %v does not wrap ErrFormat", v, err)
+				}
+				return
+			}
+			b, err := json.Marshal(v)
+			if err != nil {
+				// A decoded band or kind is always named; only the zero
+				// value from "null" may fail to encode.
+				return
+			}
+			w := fresh()
+			if err := w.UnmarshalJSON(b); err != nil {
+				t.Fatalf("%T: re-decoding %s: %v", v, b, err)
+			}
+			b2, err := json.Marshal(w)
+			if err != nil || string(b2) != string(b) {
+				t.Fatalf("%T: %s re-encodes as %s (%v)", v, b, b2, err)
+			}
+		}
+		check(new(Spec), func() json.Unmarshaler { return new(Spec) })
+		check(new(Transfer), func() json.Unmarshaler { return new(Transfer) })
+		check(new(Stage), func() json.Unmarshaler { return new(Stage) })
+	})
+}

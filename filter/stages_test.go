@@ -355,3 +355,50 @@ func TestStagesChebyshevTable(t *testing.T) {
 		}
 	}
 }
+
+// FuzzStages: Stages never panics on a transfer built from any numbers;
+// it fails with a sentinel error or returns a valid cascade whose product
+// equals the transfer.
+func FuzzStages(f *testing.F) {
+	f.Add(-1.0, 2.0, -3.0, 0.0, 5.0, 0.0, 1.0, uint8(1))
+	f.Add(-0.1, 10.0, -2.0, 0.0, 0.0, 0.0, -4.0, uint8(2))
+	f.Add(1.0, 1.0, -1.0, 0.0, 3.0, 1.0, 1.0, uint8(0))
+	f.Add(-1e-300, 1e300, -1e10, 0.0, 1e-5, 0.0, 1e200, uint8(3))
+	f.Fuzz(func(t *testing.T, pr, pi, rr, zr, zi, z2, gain float64, shape uint8) {
+		h := Transfer{Poles: []complex128{complex(pr, pi), complex(pr, -pi), complex(rr, 0)}, Gain: gain}
+		switch shape % 4 {
+		case 1:
+			h.Zeros = []complex128{complex(zr, zi), complex(zr, -zi)}
+		case 2:
+			h.Zeros = []complex128{0, complex(z2, 0)}
+		case 3:
+			h.Zeros = []complex128{complex(zr, zi), complex(zr, -zi), complex(z2, 0)}
+		}
+		st, err := h.Stages()
+		if err != nil {
+			for _, e := range []error{ErrStage, ErrRange} {
+				if errors.Is(err, e) {
+					return
+				}
+			}
+			t.Fatalf("error %v wraps no sentinel", err)
+		}
+		for _, s := range st {
+			if err := s.Validate(); err != nil {
+				t.Fatalf("stage %+v: %v", s, err)
+			}
+		}
+		// Compare where the response is representable and well conditioned.
+		for _, w := range []float64{1e-3, 1, 1e3} {
+			fr := w * cmplx.Abs(h.Poles[2]) / (2 * math.Pi)
+			want := h.AtHz(fr)
+			got := cascade(st, len(st), fr)
+			if cmplx.IsInf(want) || cmplx.IsNaN(want) || cmplx.Abs(want) < 1e-250 || cmplx.Abs(want) > 1e250 {
+				continue
+			}
+			if !relClose(got, want, condTol(h, fr)) {
+				t.Fatalf("%+v: cascade %v, transfer %v at %g Hz", h, got, want, fr)
+			}
+		}
+	})
+}
