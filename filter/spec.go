@@ -78,10 +78,10 @@ func (s Spec) Validate() error {
 }
 
 // bandPlan is how a mask is met by a lowpass prototype: the normalized
-// lowpass requirement (passband edge 1 rad/s, stopband edge Sel rad/s) and
+// lowpass requirement (passband edge 1 rad/s, stopband edge sel rad/s) and
 // the transform that carries it to the mask's band. For Lowpass and
-// Highpass EdgeHz is the frequency where the prototype's 1 rad/s lands;
-// for Bandpass and Bandstop CenterHz and WidthHz are the transform's
+// Highpass edgeHz is the frequency where the prototype's 1 rad/s lands;
+// for Bandpass and Bandstop centerHz and widthHz are the transform's
 // geometric centre and edge-to-edge width.
 type bandPlan struct {
 	band              Band
