@@ -34,6 +34,7 @@ type table struct {
 	tol    float64
 	values []int
 	mant   []float64 // values / 10^(digits-1), in [1, 10)
+	lnv    []float64 // ln(values)
 }
 
 // The tables below are IEC 60063:2015, typed from memory of the standard's
@@ -99,9 +100,11 @@ func init() {
 	for i := range tables {
 		t := &tables[i]
 		t.mant = make([]float64, len(t.values))
+		t.lnv = make([]float64, len(t.values))
 		scale := pow10(t.digits - 1)
 		for j, v := range t.values {
 			t.mant[j] = float64(v) / scale
+			t.lnv[j] = math.Log(float64(v))
 		}
 	}
 }
@@ -179,7 +182,7 @@ func (t *table) value(k int) float64 {
 // float64.
 func (t *table) logValue(k int) float64 {
 	dec, j := floorDiv(k, len(t.values))
-	return math.Log(float64(t.values[j])) + float64(dec-(t.digits-1))*math.Ln10
+	return t.lnv[j] + float64(dec-(t.digits-1))*math.Ln10
 }
 
 func floorDiv(k, n int) (q, r int) {
@@ -204,9 +207,30 @@ func (t *table) bracket(v float64) int {
 		dec++
 	}
 	base := dec * n
-	// Largest j in [0, n) with value(base+j) <= v.
-	j := sort.Search(n, func(j int) bool { return t.value(base+j) > v }) - 1
+	// Largest j in [0, n) with value(base+j) <= v: a first guess from the
+	// mantissa (v/10^dec, off by an ulp or so), corrected with the exact
+	// values.
+	m := v / t.decade(dec)
+	j := sort.SearchFloat64s(t.mant, m)
+	if j == n || t.mant[j] > m {
+		j--
+	}
+	j = max(j, 0)
+	for j > 0 && t.value(base+j) > v {
+		j--
+	}
+	for j+1 < n && t.value(base+j+1) <= v {
+		j++
+	}
 	return base + j
+}
+
+// decade returns 10^dec, approximately for |dec| > 22.
+func (t *table) decade(dec int) float64 {
+	if dec >= 0 {
+		return pow10(dec)
+	}
+	return 1 / pow10(-dec)
 }
 
 // memberTol is the relative distance within which an input is taken to be
