@@ -247,3 +247,24 @@ func TestMeasureStepSettle(t *testing.T) {
 		t.Errorf("settling %g s, want in (%g, %g]", st.SettleS, env-half, env)
 	}
 }
+
+// TestCrossingNarrowDip: a dip to −20 dB one third of the grid spacing
+// wide, centred between grid points of a flat response, is a crossing of
+// −10 dB that CrossingHz finds from the refined extremum, for the exact
+// transfer and for the same system as a black box.
+func TestCrossingNarrowDip(t *testing.T) {
+	step := math.Pow(10, 1.0/400)
+	fb := 1000 * math.Sqrt(step)
+	// Zeros with Q 3000 over poles with Q 300: gain 300/3000 at fb, width
+	// about fb/300.
+	dip := bumpTransfer(fb, 3000, 300)
+	for _, s := range []System{dip, blackBox{dip}} {
+		f, err := CrossingHz(s, -10, 100, 1e4)
+		if err != nil {
+			t.Fatalf("%T: %v", s, err)
+		}
+		if g := gainDB(s.AtHz(f)); math.Abs(g+10) > 1e-6 || f > fb || f < fb*(1-1/100.0) {
+			t.Errorf("%T: crossing at %.9g Hz (gain %.9g dB), want just below %.9g Hz", s, f, g, fb)
+		}
+	}
+}
