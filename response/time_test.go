@@ -136,6 +136,17 @@ func TestIntegratorAndUnstable(t *testing.T) {
 	if d := cmp.Diff(ts, y, cmpopts.EquateApprox(0, 1e-15)); d != "" {
 		t.Errorf("ramp (-want +got):\n%s", d)
 	}
+	// A double integrator with a lag, 1/(s²(s+1)): step t²/2 − t + 1 − e^{−t}
+	// (partial fractions of 1/(s³(s+1)), common practice).
+	y, err = Step(filter.Transfer{Poles: []complex128{0, 0, -1}, Gain: 1}, ts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, x := range ts {
+		if want := x*x/2 - x + 1 - math.Exp(-x); math.Abs(y[i]-want) > 1e-15*(1+x*x) {
+			t.Errorf("double integrator step y(%g) = %.16g, want %.16g", x, y[i], want)
+		}
+	}
 	y, err = Step(filter.Transfer{Poles: []complex128{1}, Gain: 1}, ts)
 	if err != nil {
 		t.Fatal(err)
