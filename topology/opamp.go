@@ -134,10 +134,10 @@ func (c Circuit) DominantWith(op OpAmp) (f0Hz, q float64, err error) {
 }
 
 // deviation returns the largest relative error, with op against the ideal
-// circuit, of f0, of Q, and of the gain magnitude |H| at f0 (which catches
-// what the stage's poles alone do not show: a follower's own pole, a gain
-// error from a finite DC gain).
-func (c Circuit) deviation(op OpAmp, f0, q float64) (float64, error) {
+// circuit, of f0, of Q, and of the gain magnitude |H| at fTest (which
+// catches what the stage's poles alone do not show: a follower's own pole,
+// a gain error from a finite DC gain).
+func (c Circuit) deviation(op OpAmp, f0, q, fTest float64) (float64, error) {
 	f, qq, err := c.DominantWith(op)
 	if err != nil {
 		return math.Inf(1), err
@@ -146,8 +146,24 @@ func (c Circuit) deviation(op OpAmp, f0, q float64) (float64, error) {
 	if q > 0 {
 		e = math.Max(e, math.Abs(qq/q-1))
 	}
-	e = math.Max(e, math.Abs(cmplx.Abs(c.AtHzWith(op, f0))/cmplx.Abs(c.AtHz(f0))-1))
+	e = math.Max(e, math.Abs(cmplx.Abs(c.AtHzWith(op, fTest))/cmplx.Abs(c.AtHz(fTest))-1))
 	return e, nil
+}
+
+// gainTestHz is where deviation compares gains: f0, or for a notch the one
+// of f0/3, f0 and 3·f0 where the ideal gain is largest (a symmetric notch
+// has no gain at f0).
+func (c Circuit) gainTestHz(f0 float64) float64 {
+	if c.Stage.Kind != filter.NotchStage {
+		return f0
+	}
+	best, fb := -1.0, f0
+	for _, f := range []float64{f0 / 3, f0, 3 * f0} {
+		if g := cmplx.Abs(c.AtHz(f)); g > best {
+			best, fb = g, f
+		}
+	}
+	return fb
 }
 
 // DefaultMaxErr is the f0 and Q error RequiredGBWHz allows when given 0.
@@ -155,7 +171,8 @@ const DefaultMaxErr = 0.01
 
 // RequiredGBWHz returns the least gain-bandwidth product, in hertz, of an
 // op-amp with infinite DC gain (A(s) = 2π·GBW/s) and no output resistance
-// that keeps the circuit's f0 and Q, and its gain magnitude at f0, within
+// that keeps the circuit's f0 and Q, and its gain magnitude at f0 (for a
+// notch at f0/3, f0 or 3·f0, wherever its ideal gain is largest), within
 // maxErr (relative; 0 means DefaultMaxErr, 1 %) of the ideal circuit's,
 // found with the non-ideal op-amps in the nodal analysis (DominantWith,
 // AtHzWith), not by a rule of thumb. The gain at f0 is part of the test
@@ -181,10 +198,11 @@ func (c Circuit) RequiredGBWHzWith(op OpAmp, maxErr float64) (float64, error) {
 	if err != nil {
 		return 0, err
 	}
+	fTest := c.gainTestHz(ach.F0Hz)
 	test := func(gbw float64) bool {
 		o := op
 		o.GBWHz = gbw
-		e, err := c.deviation(o, ach.F0Hz, ach.Q)
+		e, err := c.deviation(o, ach.F0Hz, ach.Q, fTest)
 		return err == nil && e <= maxErr
 	}
 	lo := ach.F0Hz / 10
