@@ -144,7 +144,7 @@ func (m modal) crossover() float64 {
 	cross := 0.0
 	for i := 1; i <= 64; i++ {
 		x := m.taylorEnd * float64(i) / 64
-		if _, a := m.series(x); a >= m.modesMag(x/m.rho) {
+		if _, a := m.series(x); !(a < m.modesMag(x/m.rho)) {
 			break
 		}
 		cross = x
@@ -214,6 +214,9 @@ func taylorSeries(gain float64, zeros, poles []complex128, step bool) (rho, end 
 		c := 0.0
 		if j >= 0 && j <= taylorTerms {
 			c = scale * real(a[j]) / fact
+		}
+		if math.IsNaN(c) || math.IsInf(c, 0) {
+			return 0, 0, nil // zeros far beyond the poles: no usable series
 		}
 		coef = append(coef, c)
 	}

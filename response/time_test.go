@@ -218,3 +218,23 @@ func TestZeroTransfer(t *testing.T) {
 		t.Errorf("impulse of H = 3: %v, dirac %g, %v", imp, d, err)
 	}
 }
+
+// TestFarZeros: a zero far beyond the poles makes the series at t = 0
+// unusable (its coefficients overflow); the modal sum is used and the step
+// stays right. H(s) = (1 − s/z)/(s + 1) has the step 1 − (1 + 1/z)·e^{−t}
+// (partial fractions, common practice).
+func TestFarZeros(t *testing.T) {
+	z := 1e200
+	h := filter.Transfer{Zeros: []complex128{complex(z, 0)}, Poles: []complex128{-1}, Gain: -1 / z}
+	ts := []float64{0, 0.5, 2}
+	y, err := Step(h, ts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, x := range ts {
+		want := 1 - (1+1/z)*math.Exp(-x)
+		if math.IsNaN(y[i]) || math.Abs(y[i]-want) > 1e-15 {
+			t.Errorf("y(%g) = %.16g, want %.16g", x, y[i], want)
+		}
+	}
+}
