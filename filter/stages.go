@@ -173,8 +173,8 @@ func poleSections(poles []complex128) ([]section, error) {
 				used[bj] = true
 				q := poles[bj]
 				// The pair's mean, upper member: exact for exact conjugates.
-				re := (real(p) + real(q)) / 2
-				im := (math.Abs(imag(p)) + math.Abs(imag(q))) / 2
+				re := mean(real(p), real(q))
+				im := mean(math.Abs(imag(p)), math.Abs(imag(q)))
 				w0 := math.Hypot(re, im)
 				secs = append(secs, section{order: 2, w0: w0, q: w0 / (-2 * re)})
 				continue
@@ -196,6 +196,15 @@ func poleSections(poles []complex128) ([]section, error) {
 		secs = append(secs, section{order: 1, w0: reals[0]})
 	}
 	return secs, nil
+}
+
+// mean returns the mean of a and b without overflow near the top of the
+// float64 range, exactly a when a == b.
+func mean(a, b float64) float64 {
+	if a == b {
+		return a
+	}
+	return a/2 + b/2
 }
 
 // assignZeros classifies the zeros and assigns them to the sections (see
@@ -231,7 +240,7 @@ func assignZeros(secs []section, zeros, poles []complex128) error {
 			return fmt.Errorf("filter: stages: jω-axis zero %v has no conjugate: %w", z, ErrStage)
 		}
 		used[bj] = true
-		pairs = append(pairs, (math.Abs(imag(z))+math.Abs(imag(zeros[bj])))/2)
+		pairs = append(pairs, mean(math.Abs(imag(z)), math.Abs(imag(zeros[bj]))))
 	}
 	// Second-order sections in descending Q take the nearest zero pair.
 	var second []int
@@ -255,7 +264,10 @@ func assignZeros(secs []section, zeros, poles []complex128) error {
 		w0 := secs[i].w0
 		best, bk := math.Inf(1), -1
 		for k, wz := range pairs {
-			if d := math.Abs(math.Log(wz / w0)); d < best {
+			// bk < 0: take the first when no ratio is finite (w0 or wz
+			// at the ends of the float64 range), so that Validate
+			// reports the section instead of an index panicking.
+			if d := math.Abs(math.Log(wz / w0)); bk < 0 || d < best || math.IsNaN(best) {
 				best, bk = d, k
 			}
 		}

@@ -121,11 +121,25 @@ func (h Transfer) checkRoots() error {
 	return nil
 }
 
-// checkMapped reports a mapped root that overflowed.
-func checkMapped(what string, rs []complex128) error {
+// checkMapped reports a mapped root that overflowed. When in (the poles
+// before the transform) is given and lies wholly in the open left
+// half-plane, it also reports a mapped pole whose real part underflowed
+// below the normal float64 range (a corner near 5e-324 Hz leaves a pole
+// at −0 + jω, on the axis: a silently unstable result).
+func checkMapped(what string, rs, in []complex128) error {
 	for i, r := range rs {
 		if cmplx.IsNaN(r) || cmplx.IsInf(r) {
 			return fmt.Errorf("filter: transformed %s[%d] not finite: %w", what, i, ErrRange)
+		}
+	}
+	for _, p := range in {
+		if !(real(p) < 0) {
+			return nil
+		}
+	}
+	for i, r := range rs {
+		if in != nil && !(real(r) <= -0x1p-1022) {
+			return fmt.Errorf("filter: transformed %s[%d] = %v: real part underflows float64: %w", what, i, r, ErrRange)
 		}
 	}
 	return nil
@@ -170,10 +184,10 @@ func (h Transfer) scale(w float64) (Transfer, error) {
 	if out.Gain, err = g.real("lowpass gain"); err != nil {
 		return Transfer{}, err
 	}
-	if err := checkMapped("poles", out.Poles); err != nil {
+	if err := checkMapped("poles", out.Poles, h.Poles); err != nil {
 		return Transfer{}, err
 	}
-	if err := checkMapped("zeros", out.Zeros); err != nil {
+	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
 		return Transfer{}, err
 	}
 	return out, nil
@@ -232,10 +246,10 @@ func (h Transfer) ToHighpass(cornerHz float64) (Transfer, error) {
 	if out.Gain, err = g.real("highpass gain"); err != nil {
 		return Transfer{}, err
 	}
-	if err := checkMapped("poles", out.Poles); err != nil {
+	if err := checkMapped("poles", out.Poles, h.Poles); err != nil {
 		return Transfer{}, err
 	}
-	if err := checkMapped("zeros", out.Zeros); err != nil {
+	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
 		return Transfer{}, err
 	}
 	return out, nil
@@ -357,10 +371,10 @@ func (h Transfer) ToBandpass(centerHz, widthHz float64) (Transfer, error) {
 	if out.Gain, err = g.real("bandpass gain"); err != nil {
 		return Transfer{}, err
 	}
-	if err := checkMapped("poles", out.Poles); err != nil {
+	if err := checkMapped("poles", out.Poles, h.Poles); err != nil {
 		return Transfer{}, err
 	}
-	if err := checkMapped("zeros", out.Zeros); err != nil {
+	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
 		return Transfer{}, err
 	}
 	return out, nil
@@ -440,10 +454,10 @@ func (h Transfer) ToBandstop(centerHz, widthHz float64) (Transfer, error) {
 	if out.Gain, err = g.real("bandstop gain"); err != nil {
 		return Transfer{}, err
 	}
-	if err := checkMapped("poles", out.Poles); err != nil {
+	if err := checkMapped("poles", out.Poles, h.Poles); err != nil {
 		return Transfer{}, err
 	}
-	if err := checkMapped("zeros", out.Zeros); err != nil {
+	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
 		return Transfer{}, err
 	}
 	return out, nil
