@@ -29,7 +29,8 @@ var units = []string{"\u03a9", "\u2126", "ohms", "ohm", "Ohms", "Ohm", "Hz", "F"
 //
 //   - Engineering notation: a decimal number with an optional exponent, an
 //     optional SI prefix (f p n u µ m k K M G T; space allowed before it)
-//     and an optional unit (Ω, ohm, F, H, Hz): "15.8k", "100n", "4.7 µF",
+//     and an optional unit (Ω, ohm, F, H, Hz; after a prefix also "f" for
+//     farads, as in the common "100nf"; alone "f" is femto): "15.8k", "100n", "4.7 µF",
 //     "4.7uF", "1M", "2.2 kΩ", "1e-9", "0.1u", "100R" ("R" alone as the
 //     unit: ohms).
 //   - The IEC 60062 letter-and-digit code (from memory of IEC 60062), where
@@ -74,6 +75,7 @@ func parseValue(in string) (float64, error) {
 	var frac string
 	exp := 0
 	hasExp := false
+	afterPrefix := false // an SI prefix was read: a lowercase "f" is then farads
 	if mult, n := codeLetter(rest); n > 0 && len(rest) > n && isDigit(rest[n]) {
 		// Letter-and-digit code: the letter is the decimal point.
 		j := n
@@ -82,6 +84,7 @@ func parseValue(in string) (float64, error) {
 		}
 		frac = rest[n:j]
 		exp = mult
+		afterPrefix = rest[0] != 'R' && rest[0] != 'r'
 		rest = rest[j:]
 	} else {
 		if strings.HasPrefix(rest, ".") {
@@ -127,9 +130,10 @@ func parseValue(in string) (float64, error) {
 			}
 			exp += p
 			rest = rest[n:]
+			afterPrefix = true
 		}
 	}
-	if rest != "" && !isUnit(rest) {
+	if rest != "" && !isUnit(rest) && !(afterPrefix && rest == "f") {
 		return 0, syntaxErr(in, fmt.Sprintf("unexpected %q", rest))
 	}
 	if intPart == "" {

@@ -58,6 +58,13 @@ func TestParseValue(t *testing.T) {
 		{"15K8", 15.8e3},
 		{"0R1", 0.1},
 		{"3G3", 3.3e9},
+		// A lowercase f after a prefix is farads (common practice in
+		// hand-written part lists); alone it is femto.
+		{"100nf", 100e-9},
+		{"4.7uf", 4.7e-6},
+		{"4n7f", 4.7e-9},
+		{"22f", 22e-15},
+		{"1ff", 1e-15}, // femto, then farads
 	}
 	for _, tc := range tests {
 		got, err := ParseValue(tc.in)
@@ -78,7 +85,7 @@ func TestParseValueErrors(t *testing.T) {
 		{"4 k7", ErrSyntax}, {"1kk", ErrSyntax}, {"0x10", ErrSyntax}, {"NaN", ErrSyntax},
 		{"Inf", ErrSyntax}, {"-Inf", ErrSyntax}, {"1e3k", ErrSyntax}, {"1 V", ErrSyntax},
 		{"--1", ErrSyntax}, {"1 000", ErrSyntax}, {"4.7 µ F", ErrSyntax}, {"1,5k", ErrSyntax},
-		{"1e400", ErrRange}, {"1e-400", ErrRange}, {"1e9999999", ErrRange}, {"999T" + "e300", ErrSyntax},
+		{"2R2f", ErrSyntax}, {"1e400", ErrRange}, {"1e-400", ErrRange}, {"1e9999999", ErrRange}, {"999T" + "e300", ErrSyntax},
 	}
 	for _, tc := range tests {
 		v, err := ParseValue(tc.in)
