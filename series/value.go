@@ -30,9 +30,9 @@ var units = []string{"\u03a9", "\u2126", "ohms", "ohm", "Ohms", "Ohm", "Hz", "F"
 //   - Engineering notation: a decimal number with an optional exponent, an
 //     optional SI prefix (f p n u µ m k K M G T; space allowed before it)
 //     and an optional unit (Ω, ohm, F, H, Hz; after a prefix also "f" for
-//     farads, as in the common "100nf"; alone "f" is femto): "15.8k", "100n", "4.7 µF",
-//     "4.7uF", "1M", "2.2 kΩ", "1e-9", "0.1u", "100R" ("R" alone as the
-//     unit: ohms).
+//     farads, as in the common "100nf"; alone "f" is femto): "15.8k",
+//     "100n", "4.7 µF", "4.7uF", "1M", "2.2 kΩ", "1e-9", "0.1u", "100R"
+//     ("R" alone as the unit: ohms).
 //   - The IEC 60062 letter-and-digit code (from memory of IEC 60062), where
 //     the letter of the multiplier stands in place of the decimal point: R
 //     (×1), p n u µ m k K M G T; "4k7" = 4.7e3, "2R2" = 2.2, "R47" = 0.47,
