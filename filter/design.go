@@ -27,6 +27,32 @@ func ellipticAtten(n int, sel, rp float64) float64 {
 	return 10 / math.Ln10 * math.Log1p(e2/(k1*k1))
 }
 
+// magAt returns |H(jw)| from real arithmetic: |Gain| times the square
+// roots of the ratios |jw − z|²/|jw − p|², interleaved a zero and a pole
+// at a time as in Transfer.At so that high orders neither overflow nor
+// underflow. +Inf at a pole, 0 at a zero.
+func magAt(h Transfer, w float64) float64 {
+	v := math.Abs(h.Gain)
+	nz, np := len(h.Zeros), len(h.Poles)
+	for i := range max(nz, np) {
+		switch {
+		case i < nz && i < np:
+			v *= math.Sqrt(sqDist(h.Zeros[i], w) / sqDist(h.Poles[i], w))
+		case i < np:
+			v /= math.Sqrt(sqDist(h.Poles[i], w))
+		default:
+			v *= math.Sqrt(sqDist(h.Zeros[i], w))
+		}
+	}
+	return v
+}
+
+// sqDist returns |jw − r|².
+func sqDist(r complex128, w float64) float64 {
+	a, b := real(r), w-imag(r)
+	return a*a + b*b
+}
+
 // attenDB returns the attenuation of h at w rad/s, −20·log10|H(jw)|
 // (+Inf at a transmission zero).
 func attenDB(h Transfer, w float64) float64 {
@@ -133,10 +159,18 @@ const meetGrid = 97
 // as (the spec's values, or the family's stricter ones), to within
 // MaskToleranceDB: the band edges exactly, DC and infinity, and a log grid
 // over each band segment (three decades beyond the outer edges).
+//
+// The grid is evaluated as magnitudes against the bounds converted once
+// (attenuation a <= passMax  <=>  |H| >= 10^(−passMax/20), and likewise
+// for the stopband), |H| from real arithmetic (magAt): no logarithm, no
+// complex division per point. The verdicts are those of comparing
+// attenuations in dB, up to rounding far below MaskToleranceDB.
 func meets(h Transfer, s Spec, rp, as float64) bool {
 	passMax := rp + MaskToleranceDB
 	stopMin := as - MaskToleranceDB
-	att := func(f float64) float64 { return attenDB(h, 2*math.Pi*f) }
+	passMin := math.Pow(10, -passMax/20) // least |H| in the passband
+	stopMax := math.Pow(10, -stopMin/20) // greatest |H| in the stopband
+	mag := func(f float64) float64 { return magAt(h, 2*math.Pi*f) }
 	inf := math.Inf(1)
 	if len(h.Zeros) == len(h.Poles) {
 		inf = -20 * math.Log10(math.Abs(h.Gain))
@@ -144,36 +178,38 @@ func meets(h Transfer, s Spec, rp, as float64) bool {
 		inf = math.Inf(-1)
 	}
 	seg := func(lo, hi float64, ok func(float64) bool) bool {
-		r := math.Log(hi / lo)
+		q := math.Exp(math.Log(hi/lo) / (meetGrid - 1))
+		f := lo
 		for i := range meetGrid {
-			f := lo * math.Exp(r*float64(i)/(meetGrid-1))
 			if i == meetGrid-1 {
 				f = hi
 			}
-			if !ok(att(f)) {
+			if !ok(mag(f)) {
 				return false
 			}
+			f *= q
 		}
 		return true
 	}
-	inPass := func(a float64) bool { return a <= passMax }
-	inStop := func(a float64) bool { return a >= stopMin }
+	inPass := func(m float64) bool { return m >= passMin }
+	inStop := func(m float64) bool { return m <= stopMax }
+	infPass, infStop := inf <= passMax, inf >= stopMin
 	const span = 1000
 	p, t := s.PassHz, s.StopHz
 	switch s.Band {
 	case Lowpass:
-		return inPass(att(0)) && seg(p[0]/span, p[0], inPass) &&
-			seg(t[0], t[0]*span, inStop) && inStop(inf)
+		return inPass(mag(0)) && seg(p[0]/span, p[0], inPass) &&
+			seg(t[0], t[0]*span, inStop) && infStop
 	case Highpass:
-		return inStop(att(0)) && seg(t[0]/span, t[0], inStop) &&
-			seg(p[0], p[0]*span, inPass) && inPass(inf)
+		return inStop(mag(0)) && seg(t[0]/span, t[0], inStop) &&
+			seg(p[0], p[0]*span, inPass) && infPass
 	case Bandpass:
-		return inStop(att(0)) && seg(t[0]/span, t[0], inStop) &&
+		return inStop(mag(0)) && seg(t[0]/span, t[0], inStop) &&
 			seg(p[0], p[1], inPass) &&
-			seg(t[1], t[1]*span, inStop) && inStop(inf)
+			seg(t[1], t[1]*span, inStop) && infStop
 	default:
-		return inPass(att(0)) && seg(p[0]/span, p[0], inPass) &&
+		return inPass(mag(0)) && seg(p[0]/span, p[0], inPass) &&
 			seg(t[0], t[1], inStop) &&
-			seg(p[1], p[1]*span, inPass) && inPass(inf)
+			seg(p[1], p[1]*span, inPass) && infPass
 	}
 }
