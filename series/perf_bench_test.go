@@ -239,3 +239,38 @@ func BenchmarkPerfMonteCarlo(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkPerfSnap snaps Chebyshev lowpass chains (1 dB, corner 10 kHz)
+// of 1, 2, 4 and 8 stages to E96 resistors and E12 capacitors: the search
+// is bounded per stage and across stages, so the cost per stage should stay
+// near flat.
+func BenchmarkPerfSnap(b *testing.B) {
+	for _, n := range []int{2, 4, 8, 16} {
+		p, err := filter.Chebyshev{RippleDB: 1}.Prototype(n)
+		if err != nil {
+			b.Fatal(err)
+		}
+		h, err := p.ToLowpass(10e3)
+		if err != nil {
+			b.Fatal(err)
+		}
+		st, err := h.Stages()
+		if err != nil {
+			b.Fatal(err)
+		}
+		ch, err := topology.Realize(st, topology.Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		pol := Policy{Resistors: E96, Capacitors: E12, Passband: []Band{{100, 10e3}}}
+		b.Run(fmt.Sprint(len(st)), func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := Snap(ch, pol); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(len(st)), "ns/stage")
+		})
+	}
+}
