@@ -309,3 +309,26 @@ func minDesign(f Family, s Spec) (int, Transfer, error) {
 	return 0, Transfer{}, fmt.Errorf("filter: %s mask not met by %v at orders up to %d (estimate %.6g): %w",
 		s.Band, r.fam, n, est, ErrRange)
 }
+
+// DesignOrder returns the order-n filter of family f placed on the mask s
+// exactly as Design places its own result (the same band plan, edge
+// normalization and slack rule), whether or not that order meets the mask.
+// It is for callers who fix the order themselves (a board that already
+// carries n op-amp sections) and for checking what one order less than
+// MinOrder would give. Design(f, s) equals DesignOrder(f, s, MinOrder(f, s)).
+//
+// The error wraps ErrSpec for an invalid spec, ErrParam for a bad or looser
+// family parameter and ErrOrder for an order outside the family's range.
+func DesignOrder(f Family, s Spec, n int) (Transfer, error) {
+	if err := s.Validate(); err != nil {
+		return Transfer{}, err
+	}
+	r, err := resolve(f, s)
+	if err != nil {
+		return Transfer{}, err
+	}
+	if n < 1 {
+		return Transfer{}, fmt.Errorf("filter: order %d not positive: %w", n, ErrOrder)
+	}
+	return r.design(s, s.plan(), n)
+}
