@@ -34,24 +34,42 @@ var (
 )
 
 // engTicks are log ticks labelled in engineering notation ("100", "1k",
-// "10k") instead of plain decimals.
+// "10k"): every decade labelled, with 2 and 5 labelled too when fewer than
+// three decades show, and every mantissa when less than one does; spans
+// narrower than a factor of 3 get linear ticks.
 type engTicks struct{}
 
 func (engTicks) Ticks(lo, hi float64) []plot.Tick {
-	ts := plot.LogTicks{Prec: -1}.Ticks(lo, hi)
-	labelled := 0
-	for _, t := range ts {
-		if t.Label != "" && t.Value >= lo && t.Value <= hi {
-			labelled++
+	if !(lo > 0) || hi/lo < 3 {
+		ts := plot.DefaultTicks{}.Ticks(lo, hi)
+		for i := range ts {
+			if ts[i].Label != "" {
+				ts[i].Label = series.FormatValue(ts[i].Value, "")
+			}
 		}
+		return ts
 	}
-	if labelled < 3 {
-		// Less than a decade or so: linear ticks read better.
-		ts = plot.DefaultTicks{}.Ticks(lo, hi)
+	labelled := map[float64]bool{1: true}
+	switch decades := math.Log10(hi / lo); {
+	case decades < 1:
+		for m := 2.0; m < 10; m++ {
+			labelled[m] = true
+		}
+	case decades < 3:
+		labelled[2], labelled[5] = true, true
 	}
-	for i := range ts {
-		if ts[i].Label != "" {
-			ts[i].Label = series.FormatValue(ts[i].Value, "")
+	var ts []plot.Tick
+	for e := math.Floor(math.Log10(lo)); e <= math.Ceil(math.Log10(hi)); e++ {
+		for m := 1.0; m < 10; m++ {
+			v := m * math.Pow(10, e)
+			if v < lo*(1-1e-9) || v > hi*(1+1e-9) {
+				continue
+			}
+			t := plot.Tick{Value: v}
+			if labelled[m] {
+				t.Label = series.FormatValue(v, "")
+			}
+			ts = append(ts, t)
 		}
 	}
 	return ts
@@ -410,8 +428,8 @@ func writePlots(dir string, r pipeline.Result) ([]string, error) {
 	if err != nil {
 		return nil, err
 	}
-	zx0, zx1 := pass[0].LoHz, pass[len(pass)-1].HiHz
-	zoom, err := mcPlot("Passband detail", zx0/1.2, zx1*1.2, -m.RippleDB-1, 0.75)
+	zx0, zx1 := max(pass[0].LoHz/1.2, lo), min(pass[len(pass)-1].HiHz*1.2, hi)
+	zoom, err := mcPlot("Passband detail", zx0, zx1, -m.RippleDB-1, 0.75)
 	if err != nil {
 		return nil, err
 	}
