@@ -62,10 +62,11 @@ const ManifestVersion = "rolloff.board/v1"
 
 func main() {
 	if err := run(os.Args[1:], os.Stdout, os.Stderr); err != nil {
-		if !errors.Is(err, flag.ErrHelp) {
-			fmt.Fprintln(os.Stderr, "buildstep:", err)
+		if errors.Is(err, flag.ErrHelp) {
+			return // -h: the usage was printed
 		}
-		os.Exit(2)
+		fmt.Fprintln(os.Stderr, "buildstep:", err)
+		os.Exit(1)
 	}
 }
 

@@ -53,10 +53,11 @@ const defaultOut = "rolloff-design"
 
 func main() {
 	if err := run(os.Args[1:], os.Stdin, os.Stdout, os.Stderr); err != nil {
-		if !errors.Is(err, flag.ErrHelp) {
-			fmt.Fprintln(os.Stderr, "design:", err)
+		if errors.Is(err, flag.ErrHelp) {
+			return // -h: the usage was printed
 		}
-		os.Exit(2)
+		fmt.Fprintln(os.Stderr, "design:", err)
+		os.Exit(1)
 	}
 }
 

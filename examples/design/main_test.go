@@ -9,6 +9,7 @@ import (
 	"math"
 	"math/cmplx"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -277,5 +278,52 @@ func TestDocumentMatchesRun(t *testing.T) {
 	}
 	if diff := cmp.Diff(r.Doc, doc, cmpopts.EquateEmpty()); diff != "" {
 		t.Errorf("written document differs (-run +file):\n%s", diff)
+	}
+}
+
+// TestMain lets the test binary stand in for the command: with
+// ROLLOFF_DESIGN_AS_MAIN=1 in its environment it runs main with the
+// arguments after "--", so TestExitStatus can check real exit codes.
+func TestMain(m *testing.M) {
+	if os.Getenv("ROLLOFF_DESIGN_AS_MAIN") == "1" {
+		for i, a := range os.Args {
+			if a == "--" {
+				os.Args = append([]string{"design"}, os.Args[i+1:]...)
+				break
+			}
+		}
+		main()
+		os.Exit(0)
+	}
+	os.Exit(m.Run())
+}
+
+func TestExitStatus(t *testing.T) {
+	tmp := t.TempDir()
+	for _, c := range []struct {
+		args   []string
+		code   int
+		stderr string
+	}{
+		{[]string{"-out", filepath.Join(tmp, "ok"), "-trials", "50", "-noplots"}, 0, ""},
+		{[]string{"-h"}, 0, "usage: design"},
+		{[]string{"-bogus"}, 1, "design: flag provided but not defined"},
+		{[]string{"-in", filepath.Join(tmp, "missing.json")}, 1, "design: reading the request"},
+	} {
+		cmd := exec.Command(os.Args[0], append([]string{"-test.run=^$", "--"}, c.args...)...)
+		cmd.Env = append(os.Environ(), "ROLLOFF_DESIGN_AS_MAIN=1")
+		var stderr bytes.Buffer
+		cmd.Stderr = &stderr
+		err := cmd.Run()
+		code := 0
+		var ee *exec.ExitError
+		if errors.As(err, &ee) {
+			code = ee.ExitCode()
+		} else if err != nil {
+			t.Fatal(err)
+		}
+		if code != c.code || !strings.Contains(stderr.String(), c.stderr) {
+			t.Errorf("%v: exit %d, stderr %q; want exit %d with %q", c.args, code, stderr.String(), c.code, c.stderr)
+		}
 	}
 }

@@ -59,10 +59,11 @@ func main() {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	defer stop()
 	if err := run(ctx, os.Args[1:], os.Stdout, os.Stderr); err != nil {
-		if !errors.Is(err, flag.ErrHelp) {
-			fmt.Fprintln(os.Stderr, "server:", err)
+		if errors.Is(err, flag.ErrHelp) {
+			return // -h: the usage was printed
 		}
-		os.Exit(2)
+		fmt.Fprintln(os.Stderr, "server:", err)
+		os.Exit(1)
 	}
 }
 

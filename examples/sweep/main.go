@@ -47,10 +47,11 @@ var demo []byte
 
 func main() {
 	if err := run(os.Args[1:], os.Stdout, os.Stderr); err != nil {
-		if !errors.Is(err, flag.ErrHelp) {
-			fmt.Fprintln(os.Stderr, "sweep:", err)
+		if errors.Is(err, flag.ErrHelp) {
+			return // -h: the usage was printed
 		}
-		os.Exit(2)
+		fmt.Fprintln(os.Stderr, "sweep:", err)
+		os.Exit(1)
 	}
 }
 
