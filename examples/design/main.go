@@ -13,9 +13,12 @@
 // rule, prints the stage table, the circuit of each stage with E-series
 // parts, the deviation after snapping, the op-amp gain-bandwidth each
 // stage needs and the Monte Carlo yield, and writes into an output folder:
-// the JSON result document, the bill of materials (CSV), the SPICE deck and
-// PNG plots (Bode gain and phase, group delay, step response, the Monte
-// Carlo gain envelope against the mask).
+// the JSON result document (design.json), the bill of materials
+// (design-bom.csv), the SPICE deck (design.cir) and plots: bode.png (and
+// bode.svg) with gain and phase of the design and of the snapped parts
+// against the mask, delay.png (group delay), step.png (step response) and
+// montecarlo.png (the Monte Carlo gain envelope against the mask, with a
+// passband detail).
 //
 // Usage:
 //

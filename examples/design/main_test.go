@@ -3,9 +3,11 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"encoding/xml"
 	"errors"
 	"flag"
 	"image/png"
+	"io"
 	"math"
 	"math/cmplx"
 	"os"
@@ -45,7 +47,7 @@ func TestDemoReportAndFiles(t *testing.T) {
 			t.Errorf("report lacks %q:\n%s", want, out)
 		}
 	}
-	for _, name := range []string{"design.json", "design-bom.csv", "design.cir", "bode.png", "delay.png", "step.png", "montecarlo.png"} {
+	for _, name := range []string{"design.json", "design-bom.csv", "design.cir", "bode.png", "bode.svg", "delay.png", "step.png", "montecarlo.png"} {
 		fi, err := os.Stat(filepath.Join(dir, name))
 		if err != nil || fi.Size() == 0 {
 			t.Errorf("%s: missing or empty (%v)", name, err)
@@ -63,6 +65,29 @@ func TestDemoReportAndFiles(t *testing.T) {
 				t.Errorf("%s is only %v", name, b)
 			}
 		}
+	}
+
+	// The SVG is well-formed XML with an <svg> root and the plot's text.
+	svg, err := os.ReadFile(filepath.Join(dir, "bode.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dec := xml.NewDecoder(bytes.NewReader(svg))
+	root := ""
+	for {
+		tok, err := dec.Token()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			t.Fatalf("bode.svg is not XML: %v", err)
+		}
+		if se, ok := tok.(xml.StartElement); ok && root == "" {
+			root = se.Name.Local
+		}
+	}
+	if root != "svg" || !bytes.Contains(svg, []byte("Frequency (Hz)")) {
+		t.Errorf("bode.svg: root <%s>, axis label present %t", root, bytes.Contains(svg, []byte("Frequency (Hz)")))
 	}
 
 	// The JSON document parses, has its version and round-trips.

@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"strconv"
+	"strings"
 
 	"gonum.org/v1/gonum/floats"
 	"gonum.org/v1/plot"
@@ -15,6 +16,7 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgimg"
+	"gonum.org/v1/plot/vg/vgsvg"
 
 	"github.com/rolloff/rolloff/examples/internal/pipeline"
 	"github.com/rolloff/rolloff/filter"
@@ -253,27 +255,36 @@ func writePlots(dir string, r pipeline.Result) ([]string, error) {
 	fLabel := "Frequency (Hz)"
 
 	var names []string
-	save := func(name string, w, h vg.Length, rows ...*plot.Plot) error {
-		img := vgimg.New(w, h)
-		dc := draw.New(img)
+	// save draws the plots stacked in one column and writes them as PNG
+	// to name, and as SVG beside it (same name, .svg) when svg is set.
+	save := func(name string, svg bool, w, h vg.Length, rows ...*plot.Plot) error {
 		grid := make([][]*plot.Plot, len(rows))
 		for i, p := range rows {
 			grid[i] = []*plot.Plot{p}
 		}
 		tiles := draw.Tiles{Rows: len(rows), Cols: 1, PadX: vg.Millimeter, PadY: 4 * vg.Millimeter,
 			PadTop: 2 * vg.Millimeter, PadBottom: 2 * vg.Millimeter, PadLeft: 2 * vg.Millimeter, PadRight: 4 * vg.Millimeter}
-		cs := plot.Align(grid, tiles, dc)
-		for i, p := range rows {
-			p.Draw(cs[i][0])
+		render := func(c vg.CanvasWriterTo, file string) error {
+			cs := plot.Align(grid, tiles, draw.New(c))
+			for i, p := range rows {
+				p.Draw(cs[i][0])
+			}
+			var buf bytes.Buffer
+			if _, err := c.WriteTo(&buf); err != nil {
+				return fmt.Errorf("plot %s: %w", file, err)
+			}
+			if err := os.WriteFile(filepath.Join(dir, file), buf.Bytes(), 0o644); err != nil {
+				return err
+			}
+			names = append(names, file)
+			return nil
 		}
-		var buf bytes.Buffer
-		if _, err := (vgimg.PngCanvas{Canvas: img}).WriteTo(&buf); err != nil {
-			return fmt.Errorf("plot %s: %w", name, err)
-		}
-		if err := os.WriteFile(filepath.Join(dir, name), buf.Bytes(), 0o644); err != nil {
+		if err := render(vgimg.PngCanvas{Canvas: vgimg.New(w, h)}, name); err != nil {
 			return err
 		}
-		names = append(names, name)
+		if svg {
+			return render(vgsvg.New(w, h), strings.TrimSuffix(name, ".png")+".svg")
+		}
 		return nil
 	}
 	legendAt := func(p *plot.Plot, top, left bool) {
@@ -318,7 +329,7 @@ func writePlots(dir string, r pipeline.Result) ([]string, error) {
 	pp.X.Min, pp.X.Max = lo, hi
 	pp.Y.Tick.Marker = stepTicks{step: phaseStep(pp.Y.Max - pp.Y.Min)}
 	legendAt(pp, m.Band == filter.Lowpass || m.Band == filter.Bandpass, !(m.Band == filter.Lowpass || m.Band == filter.Bandpass))
-	if err := save("bode.png", 20*vg.Centimeter, 22*vg.Centimeter, pg, pp); err != nil {
+	if err := save("bode.png", true, 20*vg.Centimeter, 22*vg.Centimeter, pg, pp); err != nil {
 		return nil, err
 	}
 
@@ -338,7 +349,7 @@ func writePlots(dir string, r pipeline.Result) ([]string, error) {
 	}
 	pd.X.Min, pd.X.Max, pd.Y.Min = lo, hi, 0
 	legendAt(pd, true, m.Band == filter.Highpass)
-	if err := save("delay.png", 20*vg.Centimeter, 12*vg.Centimeter, pd); err != nil {
+	if err := save("delay.png", false, 20*vg.Centimeter, 12*vg.Centimeter, pd); err != nil {
 		return nil, err
 	}
 
@@ -378,7 +389,7 @@ func writePlots(dir string, r pipeline.Result) ([]string, error) {
 	pst.X.Tick.Marker = stepTicks{step: gainStep(span / ts)}
 	pst.Y.Tick.Marker = stepTicks{step: gainStep(pst.Y.Max - pst.Y.Min)}
 	legendAt(pst, false, false)
-	if err := save("step.png", 20*vg.Centimeter, 12*vg.Centimeter, pst); err != nil {
+	if err := save("step.png", false, 20*vg.Centimeter, 12*vg.Centimeter, pst); err != nil {
 		return nil, err
 	}
 
@@ -435,7 +446,7 @@ func writePlots(dir string, r pipeline.Result) ([]string, error) {
 	}
 	legendAt(zoom, false, gainLegendLeft)
 	zoom.Legend = plot.NewLegend() // the upper plot carries the legend
-	if err := save("montecarlo.png", 20*vg.Centimeter, 22*vg.Centimeter, full, zoom); err != nil {
+	if err := save("montecarlo.png", false, 20*vg.Centimeter, 22*vg.Centimeter, full, zoom); err != nil {
 		return nil, err
 	}
 	return names, nil
