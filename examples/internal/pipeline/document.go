@@ -112,10 +112,13 @@ type StageDoc struct {
 	Inverting bool `json:"inverting"`
 	// Parts are the circuit's parts in its template order.
 	Parts []PartDoc `json:"parts"`
-	// GBWHz is the op-amp gain-bandwidth product this stage needs to keep
-	// f0 and Q within 1 % of target, found with a non-ideal op-amp model.
+	// GBWHz is the op-amp gain-bandwidth product, in hertz, this stage's
+	// op-amps need to keep its f0 and Q within GBWMaxErr (1 %) of what
+	// the same parts give with ideal op-amps, found by nodal analysis with
+	// single-pole op-amps (topology.Circuit.RequiredGBWHz).
 	GBWHz float64 `json:"gbw_hz"`
 	// RuleOfThumbGBWHz is the common rule of thumb for the same stage,
+	// 100·max(1, |gain|)·max(1, Q)·f0 (topology.Circuit.RuleOfThumbGBWHz),
 	// for comparison.
 	RuleOfThumbGBWHz float64 `json:"rule_of_thumb_gbw_hz"`
 }
