@@ -148,3 +148,29 @@ func ExampleAnalysis_MonteCarlo() {
 	// yield 83 %
 	// most influential: U3.C2
 }
+
+// The linear worst case of one Sallen-Key stage of a sensor filter of our
+// own invention (f0 500 Hz, Q 0.707) with 1 % resistors and 5 % capacitors,
+// and the part that matters most at the corner.
+func ExampleAnalysis_WorstCase() {
+	st := filter.Stage{Kind: filter.LowpassStage, Order: 2, F0Hz: 500, Q: 0.7071, Gain: 1}
+	chain, err := topology.Realize([]filter.Stage{st}, topology.Options{Kind: topology.SallenKey})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	a := series.Analysis{Hz: []float64{500}, Tolerances: series.Tolerances{Resistor: 0.01, Capacitor: 0.05}}
+	wc, err := a.WorstCase(chain)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("f0 within ±%.1f %%, Q within ±%.1f %%\n", 100*wc.Stages[0].F0, 100*wc.Stages[0].Q)
+	fmt.Printf("gain at 500 Hz: %.2f dB to %.2f dB\n", wc.LowDB[0], wc.HighDB[0])
+	rank, _ := a.Ranking(chain)
+	fmt.Printf("largest share: %s (%.0f %%)\n", rank[0].Ref, 100*rank[0].Share)
+	// Output:
+	// f0 within ±6.0 %, Q within ±5.6 %
+	// gain at 500 Hz: -3.53 dB to -2.49 dB
+	// largest share: U1.C2 (97 %)
+}
