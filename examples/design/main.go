@@ -42,6 +42,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 
@@ -73,9 +74,10 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	out := fs.String("out", defaultOut, "output folder for the document, BOM, SPICE deck and plots (created if missing)")
 	trials := fs.Int("trials", 0, "Monte Carlo trials (0: the request's, else its default)")
 	seed := fs.Uint64("seed", 0, "Monte Carlo seed (0: the request's, else 1)")
-	noPlots := fs.Bool("noplots", false, "do not render the PNG plots")
+	noPlots := fs.Bool("noplots", false, "do not render the plots")
+	vpeak := fs.Float64("vpeak", 2.5, "peak signal amplitude in volts, for the slew rate the op-amps need")
 	fs.Usage = func() {
-		fmt.Fprintln(stderr, "usage: design [-in request.json] [-out folder] [-trials n] [-seed n] [-noplots]")
+		fmt.Fprintln(stderr, "usage: design [-in request.json] [-out folder] [-trials n] [-seed n] [-vpeak volts] [-noplots]")
 		fs.PrintDefaults()
 	}
 	if err := fs.Parse(args); err != nil {
@@ -83,6 +85,9 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 	}
 	if fs.NArg() > 0 {
 		return fmt.Errorf("unexpected argument %q (the request goes in -in)", fs.Arg(0))
+	}
+	if !(*vpeak > 0) || math.IsInf(*vpeak, 0) {
+		return fmt.Errorf("-vpeak %g: want a positive amplitude in volts", *vpeak)
 	}
 	if *trials < 0 {
 		return fmt.Errorf("-trials %d: want a positive count", *trials)
@@ -133,5 +138,5 @@ func run(args []string, stdin io.Reader, stdout, stderr io.Writer) error {
 		}
 		written = append(written, pngs...)
 	}
-	return report(stdout, res, dir, written)
+	return report(stdout, res, *vpeak, dir, written)
 }

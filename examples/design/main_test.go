@@ -40,7 +40,7 @@ func TestDemoReportAndFiles(t *testing.T) {
 	dir, out := runDemo(t)
 	for _, want := range []string{
 		"Tremor-3", "Candidates, best first", "<- chosen", "Chosen", "Stage table",
-		"Circuits with snapped parts", "Deviation after snapping", "gain-bandwidth needed",
+		"Circuits with snapped parts", "Deviation after snapping", "gain-bandwidth needed", "slew rate for a 2.5 V peak sine at 1 kHz",
 		"Monte Carlo: 300 boards", "yield", dir, pipeline.Caution,
 	} {
 		if !strings.Contains(out, want) {
@@ -258,6 +258,7 @@ func TestBadInput(t *testing.T) {
 		{"unknown flag", []string{"-bogus"}, "flag provided but not defined"},
 		{"stray argument", []string{"mask.json"}, "unexpected argument"},
 		{"negative trials", []string{"-trials", "-5"}, "-trials"},
+		{"bad amplitude", []string{"-vpeak", "0"}, "-vpeak"},
 		{"missing file", []string{"-in", filepath.Join(tmp, "nope.json")}, "reading the request"},
 		{"bad mask", []string{"-in", bad}, "field mask"},
 		{"unknown field", []string{"-in", typo}, "field trails"},

@@ -9,13 +9,29 @@ import (
 	"github.com/rolloff/rolloff/examples/internal/textable"
 	"github.com/rolloff/rolloff/filter"
 	"github.com/rolloff/rolloff/series"
+	"github.com/rolloff/rolloff/topology"
 )
 
 // hz formats a frequency in engineering notation ("1.23 kHz").
 func hz(f float64) string { return pipeline.FormatHz(f) }
 
+// topPassHz is the highest frequency the mask passes at full level that
+// matters for slew rate: the passband edge of a lowpass or bandpass, the
+// upper passband edge of a bandstop, and for a highpass ten times its edge
+// (its passband is open upwards; the signal's own bandwidth decides).
+func topPassHz(m filter.Spec) float64 {
+	switch m.Band {
+	case filter.Lowpass:
+		return m.PassHz[0]
+	case filter.Highpass:
+		return 10 * m.PassHz[0]
+	default:
+		return m.PassHz[1]
+	}
+}
+
 // report prints the design to w.
-func report(w io.Writer, r pipeline.Result, dir string, files []string) error {
+func report(w io.Writer, r pipeline.Result, vpeak float64, dir string, files []string) error {
 	d := r.Doc
 	q := d.Request
 	var b strings.Builder
@@ -101,6 +117,9 @@ func report(w io.Writer, r pipeline.Result, dir string, files []string) error {
 		tw.Row(s.Designator, s.Circuit, hz(s.GBWHz), hz(s.RuleOfThumbGBWHz))
 	}
 	tw.WriteTo(&b)
+	top := topPassHz(q.Mask)
+	p("  slew rate for a %g V peak sine at %s (top of the passband): %.3g V/µs at least\n",
+		vpeak, hz(top), topology.SlewRateVPerUs(vpeak, top))
 
 	mc := d.MonteCarlo
 	p("\nMonte Carlo: %d boards, seed %d, %s tolerances (R %g %%, C %g %%), checked at %d frequencies against the mask:\n",
