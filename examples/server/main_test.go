@@ -258,3 +258,35 @@ func TestRunFlags(t *testing.T) {
 		t.Errorf("-h: %v", err)
 	}
 }
+
+// TestConcurrentRequests sends more requests at once than the server has
+// design slots: all succeed, with the same document for the same request.
+func TestConcurrentRequests(t *testing.T) {
+	ts := newTestServer(t) // 2 slots
+	const n = 5
+	bodies := make(chan []byte, n)
+	for range n {
+		go func() {
+			resp, err := ts.Client().Post(ts.URL+"/design", "application/json", strings.NewReader(goodBody))
+			if err != nil {
+				bodies <- nil
+				return
+			}
+			defer resp.Body.Close()
+			b, _ := io.ReadAll(resp.Body)
+			if resp.StatusCode != http.StatusOK {
+				b = nil
+			}
+			bodies <- b
+		}()
+	}
+	first := <-bodies
+	if first == nil {
+		t.Fatal("a request failed")
+	}
+	for range n - 1 {
+		if b := <-bodies; !bytes.Equal(b, first) {
+			t.Error("concurrent requests got different documents (or failed)")
+		}
+	}
+}

@@ -351,3 +351,19 @@ func TestAnalysisHz(t *testing.T) {
 		t.Errorf("span [%g, %g], want [%g, %g]", hz[0], hz[len(hz)-1], lo, hi)
 	}
 }
+
+// BenchmarkRun times the whole pipeline on the test request, every family,
+// to size a server's worker pool: one design is a few hundred
+// milliseconds of CPU at most.
+func BenchmarkRun(b *testing.B) {
+	req, err := DecodeRequestBytes([]byte(testRequest))
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := Run(req); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
