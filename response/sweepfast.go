@@ -242,6 +242,106 @@ func pointFast(g0 float64, neg bool, z, p *factorSet, w float64) (gdb, phase, de
 	return gdb, phase, delay, true
 }
 
+// pointPos is pointFast for ω > 0, where the turn rule takes one form per
+// kind of factor: a zero pair's factor (2aω ≥ 0) lies in the upper
+// half-plane, a pole pair's multiplier conj(f)/|f|² in the lower one. A
+// zero or non-finite factor needs no test of its own here: it makes the
+// product 0, infinite or NaN, which the final test sends to pointFast.
+func pointPos(g0 float64, neg bool, z, p *factorSet, w float64) (gdb, phase, delay float64, ok bool) {
+	pr, pi := 1.0, 0.0
+	k := 0 // whole turns
+	e := 0 // binary exponent of the rescaling
+	w2 := w * w
+	for _, b := range z.axis[:z.na] {
+		re := (b - w) * (b + w)
+		if re < 0 {
+			k += 1 - int(math.Float64bits(pi)>>63)
+		}
+		pr, pi = pr*re, pi*re
+		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
+			pr, pi, e = rescale(pr, pi, s, e)
+		}
+	}
+	for _, f := range z.pairs[:z.np] {
+		re := f.a2 + (f.beta-w)*(f.beta+w)
+		im := f.c1 * w
+		delay -= f.c1 * (f.c0 + w2) / (re*re + im*im)
+		nr, ni := pr*re-pi*im, pr*im+pi*re
+		// Upper-half-plane multiplier: +1 from upper to lower.
+		k += int((math.Float64bits(ni) &^ math.Float64bits(pi)) >> 63)
+		pr, pi = nr, ni
+		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
+			pr, pi, e = rescale(pr, pi, s, e)
+		}
+	}
+	for _, f := range p.pairs[:p.np] {
+		re := f.a2 + (f.beta-w)*(f.beta+w)
+		im := f.c1 * w
+		inv := 1 / (re*re + im*im)
+		delay += f.c1 * (f.c0 + w2) * inv
+		xr, xi := re*inv, -im*inv
+		nr, ni := pr*xr-pi*xi, pr*xi+pi*xr
+		// Lower-half-plane multiplier: −1 from lower to upper.
+		k -= int((math.Float64bits(pi) &^ math.Float64bits(ni)) >> 63)
+		pr, pi = nr, ni
+		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
+			pr, pi, e = rescale(pr, pi, s, e)
+		}
+	}
+	for i := range z.ns + p.ns {
+		pole := i >= z.ns
+		r := z.singles[min(i, maxFastSingles-1)]
+		if pole {
+			r = p.singles[i-z.ns]
+		}
+		nr, ni, dk, slope, good := singleAt(pr, pi, r, w, pole)
+		if !good {
+			return 0, 0, 0, false
+		}
+		if pole {
+			delay += slope
+		} else {
+			delay -= slope
+		}
+		pr, pi, k = nr, ni, k+dk
+		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
+			pr, pi, e = rescale(pr, pi, s, e)
+		}
+	}
+	m := pr*pr + pi*pi
+	if !(m > 0 && m <= math.MaxFloat64) {
+		return 0, 0, 0, false
+	}
+	phase = atan2Finite(pi, pr) + 2*math.Pi*float64(k)
+	if neg {
+		phase += math.Pi
+	}
+	gdb = g0 + 10*math.Log10(m) + db20Log2*float64(e)
+	return gdb, phase, delay, true
+}
+
+// atan2Finite is math.Atan2 for finite y and x, not both zero: the same
+// branches and the same result, without the tests for NaN and infinities.
+func atan2Finite(y, x float64) float64 {
+	switch {
+	case y == 0:
+		if x >= 0 && !math.Signbit(x) {
+			return math.Copysign(0, y)
+		}
+		return math.Copysign(math.Pi, y)
+	case x == 0:
+		return math.Copysign(math.Pi/2, y)
+	}
+	q := math.Atan(y / x)
+	if x < 0 {
+		if q <= 0 {
+			return q + math.Pi
+		}
+		return q - math.Pi
+	}
+	return q
+}
+
 // rescale multiplies (pr, pi), of size s = |pr| + |pi| outside
 // [prodLo, prodHi], by 2^∓prodShift and updates the exponent e. A zero or
 // non-finite product is returned as it is (the caller falls back).
@@ -268,6 +368,12 @@ func sweepTransferFast(dst []Point, h filter.Transfer, hz []float64) {
 	neg := h.Gain < 0
 	for i, f := range hz {
 		w := 2 * math.Pi * f
+		if w > 0 {
+			if gdb, ph, d, ok := pointPos(g0, neg, &z, &p, w); ok {
+				dst[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * 180 / math.Pi, DelayS: d}
+				continue
+			}
+		}
 		if gdb, ph, d, ok := pointFast(g0, neg, &z, &p, w); ok {
 			dst[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * 180 / math.Pi, DelayS: d}
 			continue
