@@ -26,6 +26,13 @@ const maxSearchOrder = 64
 // orderCap bounds the closed-form estimate before a design is attempted.
 const orderCap = 1 << 16
 
+// stepDownMargin is how far above n−1 the closed-form estimate must lie for
+// minDesign to take order n without also trying n−1: the estimate's
+// rounding is about 1e-13 of the order (logarithms, acosh and complete
+// elliptic integrals to a few ulps), so 1e-6 leaves a wide margin; within
+// it, order n−1 is designed and checked as well.
+const stepDownMargin = 1e-6
+
 // dbPowM1 returns 10^(db/10) − 1 without cancellation for small db.
 func dbPowM1(db float64) float64 { return math.Expm1(db * (math.Ln10 / 10)) }
 
@@ -285,7 +292,12 @@ func minDesign(f Family, s Spec) (int, Transfer, error) {
 	}
 	if ok {
 		// Step down while one order less also meets (rounding above a
-		// whole number).
+		// whole number). Where the estimate is clear of n−1 by more than
+		// its rounding (stepDownMargin), order n−1 misses the mask in exact
+		// arithmetic, so the extra design and check are skipped.
+		if est-float64(n-1) > stepDownMargin {
+			return n, h, nil
+		}
 		for n > 1 {
 			h1, ok1, err1 := try(n - 1)
 			if err1 != nil || !ok1 {
