@@ -136,7 +136,10 @@ func (m Analysis) validate() error {
 // from real arithmetic at precomputed ω², without allocating.
 //
 // Errors wrap ErrPolicy (bad options), ErrChain (no circuits, a part that is
-// neither R nor C, or a part with no tolerance to take) or topology's.
+// neither R nor C, a part with no tolerance to take, or an analysis
+// frequency where the gain leaves the float64 range of |H|²: below about
+// −3000 dB, or so far above any circuit's range that the analysis gives
+// NaN) or topology's.
 func (m Analysis) MonteCarlo(chain topology.Chain) (Spread, error) {
 	if err := m.validate(); err != nil {
 		return Spread{}, err
@@ -158,6 +161,7 @@ func (m Analysis) MonteCarlo(chain topology.Chain) (Spread, error) {
 	plan := &mcPlan{dist: m.Dist, trials: m.Trials, seed: m.Seed, workers: m.Workers,
 		keepDB: len(m.Percentiles) > 0, moments: m.Moments}
 	n := 0
+	var nominal []bq // each stage's coefficients at its nominal values
 	for _, c := range chain.Circuits {
 		if _, err := newStageEval(c); err != nil {
 			return Spread{}, err
@@ -180,9 +184,11 @@ func (m Analysis) MonteCarlo(chain topology.Chain) (Spread, error) {
 			st.tol = append(st.tol, it.Tolerance)
 		}
 		// Check once that the circuit evaluates at its nominal values.
-		if _, err := st.newEval()(st.nominal); err != nil {
+		b, err := st.newEval()(st.nominal)
+		if err != nil {
 			return Spread{}, fmt.Errorf("series: Monte Carlo: %w", err)
 		}
+		nominal = append(nominal, b)
 		plan.stages = append(plan.stages, st)
 	}
 	out := Spread{Trials: m.Trials, Hz: append([]float64(nil), m.Hz...)}
@@ -196,6 +202,18 @@ func (m Analysis) MonteCarlo(chain topology.Chain) (Spread, error) {
 		w := 2 * math.Pi * f
 		plan.w2[j] = w * w
 		out.NominalDB[j] = 20 * math.Log10(cmplxAbs(chain.AtHz(f)))
+		pw := 1.0
+		for _, b := range nominal {
+			pw *= b.power(plan.w2[j])
+		}
+		if g := out.NominalDB[j]; math.IsNaN(g) || math.IsNaN(pw) || math.IsInf(pw, 0) || (pw == 0) != math.IsInf(g, -1) {
+			// Trials work with |H|², which leaves float64 where the
+			// gain is below about −3000 dB (|H| < 1e-154), and far
+			// above any circuit's range ω² and the nodal analysis do
+			// too: every trial would be −Inf or NaN. (An exact zero of
+			// the nominal chain, a notch at its zero, is fine.)
+			return Spread{}, fmt.Errorf("series: Monte Carlo: gain at Hz[%d] = %g Hz (%g dB) is beyond float64 in |H|²: %w", j, f, g, ErrChain)
+		}
 		for _, c := range chain.Circuits {
 			out.DesignDB[j] += stageDB(c.Stage, f)
 		}

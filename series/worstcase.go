@@ -149,6 +149,9 @@ func (m Analysis) WorstCase(chain topology.Chain) (WorstCase, error) {
 			d += math.Abs(g[j]) * items[k].Tolerance
 		}
 		out.NominalDB[j] = 20 * math.Log10(cmplxAbs(chain.AtHz(f)))
+		if math.IsNaN(out.NominalDB[j]) || math.IsNaN(d) {
+			return WorstCase{}, fmt.Errorf("series: worst case: gain at Hz[%d] = %g Hz is not a number (frequency beyond float64 evaluation): %w", j, f, ErrChain)
+		}
 		out.LowDB[j], out.HighDB[j] = out.NominalDB[j]-d, out.NominalDB[j]+d
 	}
 	return out, nil
