@@ -314,7 +314,7 @@ func distributeGain(stages []Stage, h Transfer, plan GainPlan) error {
 		rest = rest.div(complex(unit[i].Gain, 0))
 	}
 	if plan == GainDynamic && n > 1 {
-		peak := peakMag(h, func(w float64) float64 { return cmplx.Abs(h.At(complex(0, w))) })
+		peak := peakMag(h, func(w float64) float64 { return magAt(h, w) })
 		if !(peak > 0) || math.IsInf(peak, 0) {
 			return fmt.Errorf("filter: stages: peak gain %g not finite and positive: %w", peak, ErrRange)
 		}
@@ -340,12 +340,11 @@ func distributeGain(stages []Stage, h Transfer, plan GainPlan) error {
 
 // cascadeAt returns |Π gains[i]·unit[i](jw)| over the first k stages.
 func cascadeAt(unit []Transfer, k int, gains []float64, w float64) float64 {
-	v := complex(1, 0)
-	s := complex(0, w)
+	v := 1.0
 	for i := range k {
-		v *= unit[i].At(s) * complex(gains[i], 0)
+		v *= magAt(unit[i], w) * math.Abs(gains[i])
 	}
-	return cmplx.Abs(v)
+	return v
 }
 
 // peakMag returns the largest value of f(w) = |H(jw)| of a cascade for w in
