@@ -3,7 +3,6 @@ package robust_test
 import (
 	"bytes"
 	"encoding/json"
-	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -566,7 +565,5 @@ func TestBadInputsLayers(t *testing.T) {
 	noPanic(t, "Sweep of nothing", func() { _ = response.Sweep(ch, nil) })
 	noPanic(t, "Designator of odd input", func() { _ = series.Designator(-1, ""); _ = series.Designator(1<<40, "\x00") })
 	noPanic(t, "BOM of nothing", func() { _ = series.BOM(nil) })
-	if errors.Is(nil, io.EOF) {
-		t.Fatal("unreachable")
-	}
+	t.Logf("%d bad inputs tried in this package so far (with -run TestBadInputs: all of filter, response, topology, series)", triedBad.Load())
 }
