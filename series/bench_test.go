@@ -40,8 +40,9 @@ func BenchmarkSnap(b *testing.B) {
 	for _, p := range []Policy{
 		{Resistors: E96, Capacitors: E12, Passband: antiAliasBand},
 		{Resistors: E24, Capacitors: E6, Pairs: true, Passband: antiAliasBand},
+		{Resistors: E96, Capacitors: E12, CapRadius: 1, Passband: antiAliasBand},
 	} {
-		b.Run(fmt.Sprintf("%v-%v-pairs=%v", p.Resistors, p.Capacitors, p.Pairs), func(b *testing.B) {
+		b.Run(fmt.Sprintf("%v-%v-pairs=%v-capradius=%d", p.Resistors, p.Capacitors, p.Pairs, p.CapRadius), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
 				if _, err := Snap(ch, p); err != nil {

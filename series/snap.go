@@ -20,8 +20,11 @@ type Policy struct {
 	// Radius is the number of standard values tried on each side of a
 	// resistor's recomputed value (so 2·Radius candidates); 0 means 2.
 	Radius int
-	// CapRadius is the number of neighbouring values tried on each side of
-	// a snapped capacitor; 0 holds the capacitors at their nearest value.
+	// CapRadius, when positive, lets the capacitors move too: every
+	// combination of capacitors within CapRadius standard values of the
+	// snapped ones (at most 81 per stage, fewest steps first) is refitted
+	// with Circuit.Refit and searched like the first. 0 holds the
+	// capacitors at their nearest values.
 	CapRadius int
 	// MaxCombos bounds the combinations tried, per stage and across
 	// stages; beyond it the search descends one part (or stage) at a time.
@@ -391,30 +394,9 @@ func stageCandidates(i int, c topology.Circuit, p Policy, grid []float64) ([]can
 	if err != nil {
 		return nil, 0, err
 	}
-	rc, err := refitSnapped(i, c, p.Capacitors)
+	variants, err := capVariants(i, c, p)
 	if err != nil {
 		return nil, 0, err
-	}
-	choices := make([]partChoices, len(c.Parts))
-	for k, part := range rc.Parts {
-		kind, _ := KindOf(part.Ref)
-		s, radius := p.Resistors, p.Radius
-		if kind == Capacitor {
-			s, radius = p.Capacitors, p.CapRadius
-		}
-		choices[k] = neighbourChoices(s, part.Value, radius)
-		if p.Pairs && kind == Resistor {
-			near := s.Nearest(part.Value)
-			if math.Abs(near/part.Value-1) > p.PairAbove {
-				if pr, _, err := s.BestPair(part.Value); err == nil {
-					if choices[k].pairs == nil {
-						choices[k].pairs = map[int]Pair{}
-					}
-					choices[k].pairs[len(choices[k].vals)] = pr
-					choices[k].vals = append(choices[k].vals, pr.Value())
-				}
-			}
-		}
 	}
 	ev, err := newStageEval(c)
 	if err != nil {
@@ -435,72 +417,8 @@ func stageCandidates(i int, c topology.Circuit, p Policy, grid []float64) ([]can
 	}
 	full := newTopList(keep)
 	shapeOnly := newTopList(keep)
-	visit := func(idx []int) {
-		vals := make([]float64, len(idx))
-		for k, j := range idx {
-			vals[k] = choices[k].vals[j]
-		}
-		shape, gain, ok := score(vals)
-		if !ok {
-			return
-		}
-		full.offer(vals, idx, shape+gain, shape, gain)
-		shapeOnly.offer(vals, idx, shape, shape, gain)
-	}
-	total := 1
-	for _, ch := range choices {
-		total *= len(ch.vals)
-		if total > p.MaxCombos {
-			break
-		}
-	}
-	idx := make([]int, len(choices))
-	if total <= p.MaxCombos {
-		var rec func(k int)
-		rec = func(k int) {
-			if k == len(choices) {
-				visit(idx)
-				return
-			}
-			for j := range choices[k].vals {
-				idx[k] = j
-				rec(k + 1)
-			}
-		}
-		rec(0)
-	} else {
-		// Coordinate descent from the nearest value of each part (index 0
-		// of its choices), on the full objective.
-		visit(idx)
-		for range 64 {
-			improved := false
-			for k := range choices {
-				bestJ, bestObj := idx[k], math.Inf(1)
-				for j := range choices[k].vals {
-					idx[k] = j
-					vals := make([]float64, len(idx))
-					for m, jj := range idx {
-						vals[m] = choices[m].vals[jj]
-					}
-					shape, gain, ok := score(vals)
-					if !ok {
-						continue
-					}
-					full.offer(vals, idx, shape+gain, shape, gain)
-					shapeOnly.offer(vals, idx, shape, shape, gain)
-					if shape+gain < bestObj {
-						bestJ, bestObj = j, shape+gain
-					}
-				}
-				if bestJ != idx[k] {
-					improved = true
-				}
-				idx[k] = bestJ
-			}
-			if !improved {
-				break
-			}
-		}
+	for _, rc := range variants {
+		searchStage(rc, p, score, full, shapeOnly)
 	}
 	var out []candidate
 	seen := func(vals []float64) int {
@@ -517,7 +435,7 @@ func stageCandidates(i int, c topology.Circuit, p Policy, grid []float64) ([]can
 		}
 		cd := candidate{values: e.vals, shape: e.shape, gain: e.gain}
 		for k, j := range e.idx {
-			if pr, ok := choices[k].pairs[j]; ok {
+			if pr, ok := e.choices[k].pairs[j]; ok {
 				if cd.pairs == nil {
 					cd.pairs = map[int]Pair{}
 				}
@@ -561,6 +479,102 @@ func stageCandidates(i int, c topology.Circuit, p Policy, grid []float64) ([]can
 	return out, naive, nil
 }
 
+// searchStage searches the standard values around the parts of rc (a
+// stage with its capacitors held and resistors refitted) and offers what it
+// scores to the two top lists.
+func searchStage(rc topology.Circuit, p Policy, score func([]float64) (float64, float64, bool), full, shapeOnly *topList) {
+	choices := make([]partChoices, len(rc.Parts))
+	for k, part := range rc.Parts {
+		kind, _ := KindOf(part.Ref)
+		s, radius := p.Resistors, p.Radius
+		if kind == Capacitor {
+			// Held: the variants move the capacitors, with the resistors
+			// refitted for each.
+			s, radius = p.Capacitors, 0
+		}
+		choices[k] = neighbourChoices(s, part.Value, radius)
+		if p.Pairs && kind == Resistor {
+			near := s.Nearest(part.Value)
+			if math.Abs(near/part.Value-1) > p.PairAbove {
+				if pr, _, err := s.BestPair(part.Value); err == nil {
+					if choices[k].pairs == nil {
+						choices[k].pairs = map[int]Pair{}
+					}
+					choices[k].pairs[len(choices[k].vals)] = pr
+					choices[k].vals = append(choices[k].vals, pr.Value())
+				}
+			}
+		}
+	}
+	visit := func(idx []int) {
+		vals := make([]float64, len(idx))
+		for k, j := range idx {
+			vals[k] = choices[k].vals[j]
+		}
+		shape, gain, ok := score(vals)
+		if !ok {
+			return
+		}
+		full.offer(vals, idx, choices, shape+gain, shape, gain)
+		shapeOnly.offer(vals, idx, choices, shape, shape, gain)
+	}
+	total := 1
+	for _, ch := range choices {
+		total *= len(ch.vals)
+		if total > p.MaxCombos {
+			break
+		}
+	}
+	idx := make([]int, len(choices))
+	if total <= p.MaxCombos {
+		var rec func(k int)
+		rec = func(k int) {
+			if k == len(choices) {
+				visit(idx)
+				return
+			}
+			for j := range choices[k].vals {
+				idx[k] = j
+				rec(k + 1)
+			}
+		}
+		rec(0)
+	} else {
+		// Coordinate descent from the nearest value of each part (index 0
+		// of its choices), on the full objective.
+		visit(idx)
+		for range 64 {
+			improved := false
+			for k := range choices {
+				bestJ, bestObj := idx[k], math.Inf(1)
+				for j := range choices[k].vals {
+					idx[k] = j
+					vals := make([]float64, len(idx))
+					for m, jj := range idx {
+						vals[m] = choices[m].vals[jj]
+					}
+					shape, gain, ok := score(vals)
+					if !ok {
+						continue
+					}
+					full.offer(vals, idx, choices, shape+gain, shape, gain)
+					shapeOnly.offer(vals, idx, choices, shape, shape, gain)
+					if shape+gain < bestObj {
+						bestJ, bestObj = j, shape+gain
+					}
+				}
+				if bestJ != idx[k] {
+					improved = true
+				}
+				idx[k] = bestJ
+			}
+			if !improved {
+				break
+			}
+		}
+	}
+}
+
 // neighbourChoices returns the values tried for a part whose ideal value is
 // x: the nearest value first, then the radius values on each side of x, by
 // closeness (a standard value x is its own first choice, with radius values
@@ -592,6 +606,83 @@ func neighbourChoices(s Series, x float64, radius int) partChoices {
 		}
 	}
 	return partChoices{vals: vals}
+}
+
+// maxCapVariants bounds the capacitor combinations Snap refits per stage
+// when CapRadius > 0.
+const maxCapVariants = 81
+
+// capVariants returns the circuits to search for stage i: c with its
+// capacitors snapped and its resistors refitted (refitSnapped), and with
+// p.CapRadius > 0 also every combination of capacitors within CapRadius
+// steps of those that Refit can solve (at most maxCapVariants, nearest
+// first).
+func capVariants(i int, c topology.Circuit, p Policy) ([]topology.Circuit, error) {
+	rc, err := refitSnapped(i, c, p.Capacitors)
+	if err != nil {
+		return nil, err
+	}
+	out := []topology.Circuit{rc}
+	if p.CapRadius == 0 {
+		return out, nil
+	}
+	var capIdx []int
+	for k, part := range rc.Parts {
+		if kind, _ := KindOf(part.Ref); kind == Capacitor {
+			capIdx = append(capIdx, k)
+		}
+	}
+	width := 2*p.CapRadius + 1
+	n := 1
+	for range capIdx {
+		n *= width
+		if n > maxCapVariants {
+			n = maxCapVariants
+			break
+		}
+	}
+	type variant struct {
+		fixed []topology.Part
+		dist  int
+	}
+	var vs []variant
+	for code := 1; code < pow(width, len(capIdx)); code++ {
+		fixed := make([]topology.Part, len(capIdx))
+		dist, ok := 0, true
+		x := code
+		for m, k := range capIdx {
+			st := x%width - p.CapRadius
+			x /= width
+			v := p.Capacitors.step(rc.Parts[k].Value, st)
+			if math.IsNaN(v) {
+				ok = false
+				break
+			}
+			fixed[m] = topology.Part{Ref: rc.Parts[k].Ref, Value: v}
+			dist += max(st, -st)
+		}
+		if ok {
+			vs = append(vs, variant{fixed, dist})
+		}
+	}
+	slices.SortStableFunc(vs, func(a, b variant) int { return a.dist - b.dist })
+	for _, v := range vs {
+		if len(out) >= n {
+			break
+		}
+		if moved, err := c.Refit(v.fixed); err == nil {
+			out = append(out, moved)
+		}
+	}
+	return out, nil
+}
+
+func pow(b, e int) int {
+	r := 1
+	for range e {
+		r *= b
+	}
+	return r
 }
 
 // refitSnapped snaps c's capacitors to cs and recomputes its resistors
@@ -678,6 +769,7 @@ func pow3(m int) int {
 type topEntry struct {
 	vals        []float64
 	idx         []int
+	choices     []partChoices // what idx indexes
 	obj         float64
 	shape, gain float64
 }
@@ -690,7 +782,7 @@ type topList struct {
 
 func newTopList(n int) *topList { return &topList{n: n} }
 
-func (t *topList) offer(vals []float64, idx []int, obj, shape, gain float64) {
+func (t *topList) offer(vals []float64, idx []int, choices []partChoices, obj, shape, gain float64) {
 	if len(t.entries) == t.n && !(obj < t.entries[t.n-1].obj) {
 		return
 	}
@@ -699,7 +791,7 @@ func (t *topList) offer(vals []float64, idx []int, obj, shape, gain float64) {
 			return
 		}
 	}
-	e := topEntry{vals: slices.Clone(vals), idx: slices.Clone(idx), obj: obj, shape: shape, gain: gain}
+	e := topEntry{vals: slices.Clone(vals), idx: slices.Clone(idx), choices: choices, obj: obj, shape: shape, gain: gain}
 	pos := len(t.entries)
 	for pos > 0 && obj < t.entries[pos-1].obj {
 		pos--

@@ -341,3 +341,26 @@ func TestSnapBoundedSearch(t *testing.T) {
 		t.Errorf("worse than rounding: %g, %g vs %g", small.WorstDB, full.WorstDB, full.RoundedDB)
 	}
 }
+
+// TestSnapCapRadius lets the search move the capacitors too: they stay
+// E12 values, and the promise holds.
+func TestSnapCapRadius(t *testing.T) {
+	ch := antiAlias(t)
+	s, err := Snap(ch, Policy{CapRadius: 1, Passband: antiAliasBand})
+	if err != nil {
+		t.Fatal(err)
+	}
+	held, err := Snap(ch, Policy{Passband: antiAliasBand})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("capacitors searched: %.4f dB; held: %.4f dB; rounded %.4f dB", s.WorstDB, held.WorstDB, s.RoundedDB)
+	if s.WorstDB > s.RoundedDB {
+		t.Errorf("worse than rounding: %g > %g", s.WorstDB, s.RoundedDB)
+	}
+	for _, it := range s.Items {
+		if it.Kind == Capacitor && !isMember(E12, it.Value) {
+			t.Errorf("%s = %g not an E12 value", it.Ref, it.Value)
+		}
+	}
+}
