@@ -190,7 +190,7 @@ func (h Transfer) scale(w float64) (Transfer, error) {
 	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
 		return Transfer{}, err
 	}
-	return out, nil
+	return out.compact(), nil
 }
 
 // ToHighpass returns the highpass filter whose response at cornerHz equals
@@ -252,7 +252,7 @@ func (h Transfer) ToHighpass(cornerHz float64) (Transfer, error) {
 	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
 		return Transfer{}, err
 	}
-	return out, nil
+	return out.compact(), nil
 }
 
 // keepPairOrder swaps the members of each adjacent exact conjugate pair of
@@ -377,7 +377,7 @@ func (h Transfer) ToBandpass(centerHz, widthHz float64) (Transfer, error) {
 	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
 		return Transfer{}, err
 	}
-	return out, nil
+	return out.compact(), nil
 }
 
 // ToBandstop returns the bandstop filter whose passband edges are where the
@@ -460,5 +460,18 @@ func (h Transfer) ToBandstop(centerHz, widthHz float64) (Transfer, error) {
 	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
 		return Transfer{}, err
 	}
-	return out, nil
+	return out.compact(), nil
+}
+
+// compact returns h with empty pole and zero lists as nil, so that every
+// transform gives one representation of "none" (the one JSON decoding
+// gives back).
+func (h Transfer) compact() Transfer {
+	if len(h.Zeros) == 0 {
+		h.Zeros = nil
+	}
+	if len(h.Poles) == 0 {
+		h.Poles = nil
+	}
+	return h
 }

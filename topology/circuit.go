@@ -136,6 +136,14 @@ type Options struct {
 	// CMinF and CMaxF bound every capacitor; 0 means DefaultCMinF and
 	// DefaultCMaxF.
 	CMinF, CMaxF float64
+	// FirstOrder is the kind used for first-order stages when Kind cannot
+	// realize them (Sallen-Key, multiple feedback and the other
+	// second-order kinds), so that an odd-order design can ask for one
+	// second-order kind throughout: e.g. Kind: MultipleFeedback,
+	// FirstOrder: RCFollower. Auto (the zero value) applies no fallback:
+	// Kind is used for every stage and refuses the stages it cannot realize
+	// with an error wrapping ErrKind.
+	FirstOrder Kind
 }
 
 // The default part ranges (common practice for precision filters: below

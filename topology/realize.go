@@ -1,6 +1,7 @@
 package topology
 
 import (
+	"errors"
 	"fmt"
 	"math"
 
@@ -34,6 +35,7 @@ type limits struct {
 	rmin, rmax       float64
 	cmin, cmax       float64
 	kind             Kind
+	firstOrder       Kind
 	capFromFrequency bool
 }
 
@@ -41,7 +43,7 @@ func (o Options) limits() (limits, error) {
 	bad := func(name string, v float64) error {
 		return fmt.Errorf("topology: Options.%s = %g (must be positive and finite, or 0 for the default): %w", name, v, ErrOptions)
 	}
-	l := limits{kind: o.Kind, capF: o.CapF, rmin: o.RMinOhm, rmax: o.RMaxOhm, cmin: o.CMinF, cmax: o.CMaxF}
+	l := limits{kind: o.Kind, firstOrder: o.FirstOrder, capF: o.CapF, rmin: o.RMinOhm, rmax: o.RMaxOhm, cmin: o.CMinF, cmax: o.CMaxF}
 	for _, f := range []struct {
 		name string
 		v    *float64
@@ -65,6 +67,9 @@ func (o Options) limits() (limits, error) {
 	}
 	if _, ok := kindSpecs[l.kind]; !ok && l.kind != Auto {
 		return l, fmt.Errorf("topology: Options.Kind %v unknown: %w", l.kind, ErrKind)
+	}
+	if _, ok := kindSpecs[l.firstOrder]; !ok && l.firstOrder != Auto {
+		return l, fmt.Errorf("topology: Options.FirstOrder %v unknown: %w", l.firstOrder, ErrKind)
 	}
 	l.capFromFrequency = l.capF == 0
 	return l, nil
@@ -113,6 +118,10 @@ func realizeStage(st filter.Stage, l limits) (Circuit, error) {
 		k = AutoKind(st)
 	}
 	d, err := designFor(k, st)
+	if err != nil && st.Order == 1 && l.firstOrder != Auto && errors.Is(err, ErrKind) {
+		k = l.firstOrder
+		d, err = designFor(k, st)
+	}
 	if err != nil {
 		return Circuit{}, err
 	}

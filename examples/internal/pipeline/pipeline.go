@@ -161,20 +161,16 @@ func evaluate(req Request, p policy, fam string) (Result, error) {
 		return r, err
 	}
 	h.Gain *= p.gainScale
-	if len(h.Zeros) == 0 {
-		h.Zeros = nil // as the JSON encoding reads an empty list back
-	}
 	stages, err := h.StagesWith(filter.StageOptions{Gain: filter.GainLast})
 	if err != nil {
 		return r, err
 	}
 	chain := topology.Chain{Circuits: make([]topology.Circuit, len(stages))}
+	// The chosen kind for every stage it can realize; first-order stages
+	// fall back to an RC + follower when it is a second-order kind.
+	opt := topology.Options{Kind: p.kind, FirstOrder: topology.RCFollower, CapF: req.CapF}
 	for i, st := range stages {
-		k := p.kind
-		if st.Order == 1 {
-			k = topology.Auto // no kind but the first-order ones builds a first-order stage
-		}
-		c, err := topology.RealizeStage(st, topology.Options{Kind: k, CapF: req.CapF})
+		c, err := topology.RealizeStage(st, opt)
 		if err != nil {
 			return r, fmt.Errorf("stage %d (%v, f0 %.4g Hz, Q %.3g): %w", i+1, st.Kind, st.F0Hz, st.Q, err)
 		}

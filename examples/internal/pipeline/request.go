@@ -68,7 +68,8 @@ type Request struct {
 	// Kind is the circuit kind for the second-order stages, by
 	// topology.Kind's name ("sallen-key", "multiple-feedback", ...);
 	// empty or "auto" lets topology choose per stage. First-order stages
-	// always take topology.AutoKind.
+	// that kind cannot realize take an RC + follower
+	// (topology.Options.FirstOrder).
 	Kind string `json:"kind,omitempty"`
 	// ResistorSeries is the IEC 60063 series resistors are snapped to;
 	// default "E96".
