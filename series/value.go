@@ -142,7 +142,13 @@ func parseValue(in string) (float64, error) {
 	if frac == "" {
 		frac = "0"
 	}
-	v, err := strconv.ParseFloat(intPart+"."+frac+"e"+strconv.Itoa(exp), 64)
+	var buf [64]byte
+	num := append(buf[:0], intPart...)
+	num = append(num, '.')
+	num = append(num, frac...)
+	num = append(num, 'e')
+	num = strconv.AppendInt(num, int64(exp), 10)
+	v, err := strconv.ParseFloat(string(num), 64)
 	if err != nil || math.IsInf(v, 0) {
 		return 0, fmt.Errorf("series: parse value %q: beyond float64: %w", in, ErrRange)
 	}

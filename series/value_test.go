@@ -220,3 +220,21 @@ func FuzzParseValue(f *testing.F) {
 		}
 	})
 }
+
+func TestNoAllocs(t *testing.T) {
+	var sink float64
+	if n := testing.AllocsPerRun(100, func() {
+		for _, s := range []string{"4k7", "15.8 kΩ", "1e-9", "100nf"} {
+			v, _ := ParseValue(s)
+			sink += v
+		}
+	}); n != 0 {
+		t.Errorf("ParseValue: %v allocations", n)
+	}
+	if n := testing.AllocsPerRun(100, func() {
+		sink += E96.Nearest(15.83e3) + E12.Below(4.7e3) + E24.Above(1e-9)
+	}); n != 0 {
+		t.Errorf("Nearest, Below, Above: %v allocations", n)
+	}
+	_ = sink
+}
