@@ -459,6 +459,10 @@ func stageCandidates(i int, c topology.Circuit, p Policy, grid []float64) ([]can
 		out = append(out, candidate{values: naiveVals, shape: shape, gain: gain})
 		naive = len(out) - 1
 	}
+	targetDB := make([]float64, len(grid))
+	for j, f := range grid {
+		targetDB[j] = stageDB(target, f)
+	}
 	for n := range out {
 		b, err := ev(out[n].values)
 		if err != nil {
@@ -468,7 +472,7 @@ func stageCandidates(i int, c topology.Circuit, p Policy, grid []float64) ([]can
 		_, stable := stageOf(target, b)
 		for j, f := range grid {
 			w := 2 * math.Pi * f
-			out[n].dev[j] = 10*math.Log10(b.power(w*w)) - stageDB(target, f)
+			out[n].dev[j] = 10*math.Log10(b.power(w*w)) - targetDB[j]
 			if !stable {
 				// An unstable circuit has no steady-state response: never
 				// choose it.
