@@ -8,7 +8,9 @@ Run by `go run ./internal/benchcmp` with Debian's /usr/bin/python3 (SciPy
 It times, with timeit, the SciPy equivalents of the cases the Go side
 times, on the same masks and the same filter, and prints one JSON object:
 the versions, the orders SciPy found (so the Go side can check that both
-design the same filters), and per case the median over `runs` repetitions
+design filters of the same order), the gain of the swept filter at a few
+frequencies (so the Go side can check that both sweep the same filter),
+and per case the median over `runs` repetitions
 of the best-of-autorange time per call, in nanoseconds.
 
 Cases (frequencies in rad/s, as SciPy's analog functions take them):
@@ -88,7 +90,10 @@ def main():
     for n in (100, 1000, 10000):
         cases["sweep/gain-phase/%d" % n] = sweep_case(zpk, n, False)
         cases["sweep/gain-phase-delay/%d" % n] = sweep_case(zpk, n, True)
+    check_hz = [1e3, 19e3, 20e3, 25e3, 60e3]
+    _, hc = signal.freqs_zpk(*zpk, worN=TWO_PI * np.array(check_hz))
     out = {
+        "check": {"hz": check_hz, "gain_db": [float(x) for x in 20 * np.log10(np.abs(hc))]},
         "scipy": scipy.__version__,
         "numpy": np.__version__,
         "python": sys.version.split()[0],
