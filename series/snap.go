@@ -510,8 +510,8 @@ func searchStage(rc topology.Circuit, p Policy, score func([]float64) (float64, 
 			}
 		}
 	}
+	vals := make([]float64, len(choices)) // reused: the top lists keep copies
 	visit := func(idx []int) {
-		vals := make([]float64, len(idx))
 		for k, j := range idx {
 			vals[k] = choices[k].vals[j]
 		}
@@ -553,7 +553,6 @@ func searchStage(rc topology.Circuit, p Policy, score func([]float64) (float64, 
 				bestJ, bestObj := idx[k], math.Inf(1)
 				for j := range choices[k].vals {
 					idx[k] = j
-					vals := make([]float64, len(idx))
 					for m, jj := range idx {
 						vals[m] = choices[m].vals[jj]
 					}
