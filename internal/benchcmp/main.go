@@ -325,6 +325,45 @@ func measureGo(runs int) (*goFigures, error) {
 		protoRow.sizes, protoRow.ns = append(protoRow.sizes, n), append(protoRow.ns, ns)
 	}
 
+	// Scaling with order: Stages of Chebyshev bandpass filters (2n poles)
+	// and Design of Butterworth masks whose least order is n.
+	stagesRow := scaleRow{what: "Transfer.Stages, Chebyshev bandpass", unit: "pole", per: func(n int) float64 { return float64(n) }}
+	designRow := scaleRow{what: "Design, Butterworth lowpass", unit: "pole", per: func(n int) float64 { return float64(n) }}
+	for _, n := range []int{2, 4, 8, 16} {
+		p, err := filter.Chebyshev{RippleDB: 1}.Prototype(n)
+		if err != nil {
+			return nil, err
+		}
+		bp, err := p.ToBandpass(40e3, 8e3)
+		if err != nil {
+			return nil, err
+		}
+		ns, _ := bench(runs, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := bp.Stages(); err != nil {
+					fail(b, err)
+				}
+			}
+		})
+		stagesRow.sizes, stagesRow.ns = append(stagesRow.sizes, 2*n), append(stagesRow.ns, ns)
+		// A mask whose Butterworth estimate is n − 1/2 (1 dB to 1 kHz,
+		// 60 dB from the edge that gives it).
+		d := math.Expm1(6*math.Ln10) / math.Expm1(0.1*math.Ln10)
+		mask := filter.Spec{Band: filter.Lowpass, PassHz: [2]float64{1e3},
+			StopHz: [2]float64{1e3 * math.Pow(d, 1/(2*(float64(n)-0.5)))}, RippleDB: 1, AttenDB: 60}
+		ns, _ = bench(runs, func(b *testing.B) {
+			for b.Loop() {
+				if _, err := filter.Design(filter.Butterworth{}, mask); err != nil {
+					fail(b, err)
+				}
+			}
+		})
+		designRow.sizes, designRow.ns = append(designRow.sizes, n), append(designRow.ns, ns)
+	}
+	if failure != nil {
+		return nil, failure
+	}
+
 	// Monte Carlo and its floor.
 	chain, err := bandpassChain()
 	if err != nil {
@@ -382,7 +421,7 @@ func measureGo(runs int) (*goFigures, error) {
 		g.mcMS[nf] = median(mcNs) / 1e6
 		mcRow.sizes, mcRow.ns = append(mcRow.sizes, nf), append(mcRow.ns, median(mcNs))
 	}
-	g.scale = []scaleRow{protoRow, atRow, sweepRow, mcRow}
+	g.scale = []scaleRow{protoRow, designRow, stagesRow, atRow, sweepRow, mcRow}
 	return g, failure
 }
 
