@@ -141,11 +141,12 @@ func ExampleAnalysis_MonteCarlo() {
 		fmt.Println(err)
 		return
 	}
-	fmt.Printf("yield %.0f %%\n", 100*s.Yield)
+	lo, hi, _ := s.YieldInterval(0.95)
+	fmt.Printf("yield %.0f %% (95 %% interval %.0f %% to %.0f %%)\n", 100*s.Yield, 100*lo, 100*hi)
 	rank, _ := a.Ranking(res.Chain)
 	fmt.Println("most influential:", rank[0].Ref)
 	// Output:
-	// yield 83 %
+	// yield 83 % (95 % interval 81 % to 84 %)
 	// most influential: U3.C2
 }
 
