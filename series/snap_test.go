@@ -364,3 +364,29 @@ func TestSnapCapRadius(t *testing.T) {
 		}
 	}
 }
+
+// TestSnapCoarseCapacitors: with E3 capacitors the nearest values can
+// break a Sallen-Key stage's capacitor-ratio condition (C1/C2 >= 4Q² at
+// unity gain); Snap then takes the nearest neighbouring combination that
+// Refit can solve, and still never does worse than rounding.
+func TestSnapCoarseCapacitors(t *testing.T) {
+	for _, q := range []float64{0.55, 0.8, 1.3, 2.2, 3.1, 4.4} {
+		st := filter.Stage{Kind: filter.LowpassStage, Order: 2, F0Hz: 1e3, Q: q, Gain: 1}
+		c, err := topology.RealizeStage(st, topology.Options{Kind: topology.SallenKey})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ch := topology.Chain{Circuits: []topology.Circuit{c}}
+		s, err := Snap(ch, Policy{Capacitors: E3, Resistors: E96, Passband: []Band{{100, 1e3}}})
+		if err != nil {
+			t.Errorf("Q %g: %v", q, err)
+			continue
+		}
+		if s.WorstDB > s.RoundedDB {
+			t.Errorf("Q %g: %g dB > rounded %g dB", q, s.WorstDB, s.RoundedDB)
+		}
+		if math.Abs(s.Stages[0].QErr) > 0.05 {
+			t.Errorf("Q %g: Q error %.3g", q, s.Stages[0].QErr)
+		}
+	}
+}
