@@ -1,6 +1,12 @@
 package robust_test
 
 import (
+	"bytes"
+	"encoding/binary"
+	"fmt"
+	"hash/fnv"
+	"os"
+	"os/exec"
 	"slices"
 	"testing"
 
@@ -80,4 +86,58 @@ func TestMonteCarloWorkerCounts(t *testing.T) {
 			}
 		}
 	}
+}
+
+// fingerprint runs every design path with the Monte Carlo workers left at
+// their default (Workers 0: runtime.GOMAXPROCS) and returns a digest of
+// every number produced.
+func fingerprint(t testing.TB) string {
+	var all bits
+	for _, j := range jobs {
+		all = append(all, j.run(t, 100, 0)...)
+	}
+	h := fnv.New64a()
+	for _, x := range all {
+		var b [8]byte
+		binary.LittleEndian.PutUint64(b[:], x)
+		h.Write(b[:])
+	}
+	return fmt.Sprintf("%d numbers, digest %016x", len(all), h.Sum64())
+}
+
+// TestFingerprintChild prints the fingerprint for TestDeterministicAcrossProcesses;
+// it does nothing unless that test starts it.
+func TestFingerprintChild(t *testing.T) {
+	if os.Getenv("ROBUST_FINGERPRINT_CHILD") == "" {
+		t.Skip("run by TestDeterministicAcrossProcesses")
+	}
+	fmt.Printf("FINGERPRINT %s\n", fingerprint(t))
+}
+
+// TestDeterministicAcrossProcesses runs the design paths in fresh
+// processes with GOMAXPROCS 1, 2 and 5 (new address-space layout, new map
+// seeds, a different default Monte Carlo worker count each time) and
+// requires the same bits as this process.
+func TestDeterministicAcrossProcesses(t *testing.T) {
+	if testing.Short() {
+		t.Skip("starts three test processes")
+	}
+	want := fingerprint(t)
+	for _, procs := range []string{"1", "2", "5"} {
+		cmd := exec.Command(os.Args[0], "-test.run=^TestFingerprintChild$", "-test.count=1")
+		cmd.Env = append(os.Environ(), "ROBUST_FINGERPRINT_CHILD=1", "GOMAXPROCS="+procs)
+		out, err := cmd.CombinedOutput()
+		if err != nil {
+			t.Fatalf("GOMAXPROCS=%s: %v\n%s", procs, err, out)
+		}
+		i := bytes.Index(out, []byte("FINGERPRINT "))
+		if i < 0 {
+			t.Fatalf("GOMAXPROCS=%s: no fingerprint in\n%s", procs, out)
+		}
+		got := string(bytes.TrimSpace(bytes.SplitN(out[i+len("FINGERPRINT "):], []byte("\n"), 2)[0]))
+		if got != want {
+			t.Errorf("GOMAXPROCS=%s: %s, this process %s", procs, got, want)
+		}
+	}
+	t.Logf("every process: %s", want)
 }
