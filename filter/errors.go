@@ -28,3 +28,13 @@ var (
 	// pair that is not [re, im], an unknown band or stage kind name.
 	ErrFormat = errors.New("filter: malformed encoding")
 )
+
+// wrapsSentinel reports whether err wraps one of the package's sentinels.
+func wrapsSentinel(err error) bool {
+	for _, e := range []error{ErrOrder, ErrParam, ErrFrequency, ErrSpec, ErrRange, ErrStage, ErrFormat} {
+		if errors.Is(err, e) {
+			return true
+		}
+	}
+	return false
+}

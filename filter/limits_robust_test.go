@@ -2,8 +2,10 @@ package filter_test
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"math/cmplx"
+	"strings"
 	"testing"
 
 	"github.com/rolloff/rolloff/filter"
@@ -63,6 +65,30 @@ func TestTransformUnderflowIsAnError(t *testing.T) {
 		}
 		if !errors.Is(err, filter.ErrRange) {
 			t.Errorf("%s: error %v, want ErrRange", name, err)
+		}
+	}
+}
+
+// failingFamily is a Family defined outside the package whose Prototype
+// fails in its own words.
+type failingFamily struct{}
+
+var errOwn = errors.New("table not loaded")
+
+func (failingFamily) Prototype(int) (filter.Transfer, error) { return filter.Transfer{}, errOwn }
+func (failingFamily) String() string                         { return "Tabulated" }
+
+// TestOutsideFamilyErrorWrapped is the regression test for an error that
+// matched no sentinel: Design and MinOrder returned the error of an
+// outside Family's Prototype as it was ("table not loaded"), against the
+// package's promise that every error wraps one of its sentinels.
+func TestOutsideFamilyErrorWrapped(t *testing.T) {
+	s := filter.Spec{Band: filter.Lowpass, PassHz: [2]float64{1e3}, StopHz: [2]float64{4e3}, RippleDB: 1, AttenDB: 40}
+	_, err1 := filter.Design(failingFamily{}, s)
+	_, err2 := filter.MinOrder(failingFamily{}, s)
+	for _, err := range []error{err1, err2} {
+		if !errors.Is(err, filter.ErrParam) || !errors.Is(err, errOwn) || !strings.Contains(fmt.Sprint(err), "Tabulated.Prototype(1)") {
+			t.Errorf("error %v, want ErrParam wrapping the family's own error and naming it", err)
 		}
 	}
 }

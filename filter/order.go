@@ -197,9 +197,10 @@ func (r resolved) estimate(sel float64) (n float64, ok bool) {
 // edges fixed.
 //
 // The error wraps ErrSpec for an invalid spec (see Spec.Validate), ErrParam
-// for a bad or looser family parameter, and ErrRange when the mask needs an
-// order beyond the family's supported range (also wrapping the prototype's
-// ErrOrder).
+// for a bad or looser family parameter (and for a Family defined outside
+// this package whose Prototype fails with an error of its own, which is
+// wrapped too), and ErrRange when the mask needs an order beyond the
+// family's supported range (also wrapping the prototype's ErrOrder).
 func MinOrder(f Family, s Spec) (int, error) {
 	n, _, err := minDesign(f, s)
 	return n, err
@@ -263,6 +264,11 @@ func minDesign(f Family, s Spec) (int, Transfer, error) {
 			if errors.Is(err, ErrOrder) {
 				return Transfer{}, false, fmt.Errorf("filter: %s mask needs order above %d, beyond %v's supported range: %w: %w",
 					s.Band, n-1, r.fam, ErrRange, err)
+			}
+			if !wrapsSentinel(err) {
+				// A Family defined outside the package failed in its own
+				// words: keep them, under a sentinel callers can match.
+				return Transfer{}, false, fmt.Errorf("filter: %v.Prototype(%d): %w: %w", r.fam, n, ErrParam, err)
 			}
 			return Transfer{}, false, err
 		}

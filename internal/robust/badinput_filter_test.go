@@ -2,6 +2,7 @@ package robust_test
 
 import (
 	"encoding/json"
+	"errors"
 	"fmt"
 	"math"
 	"testing"
@@ -192,6 +193,23 @@ func filterBadInputs() []badInput {
 		rows = append(rows,
 			badInput{"MinOrder: " + c.reason, c.want, c.field, func() error { _, err := filter.MinOrder(c.f, lp); return err }},
 			badInput{"Design: " + c.reason, c.want, c.field, func() error { _, err := filter.Design(c.f, lp); return err }})
+	}
+	// Families defined outside the package that misbehave.
+	for _, c := range []struct {
+		reason, field string
+		f             filter.Family
+		want          []error
+	}{
+		{"outside family failing in its own words", "Prototype(1)", outsideFamily{err: errors.New("no table")}, errs(filter.ErrParam)},
+		{"outside family with a NaN pole", "Poles[0]", outsideFamily{h: filter.Transfer{Poles: []complex128{complex(nan, 0)}, Gain: 1}}, errs(filter.ErrRange)},
+		{"outside family with an unstable pole", "order", outsideFamily{h: filter.Transfer{Poles: []complex128{1}, Gain: 1}}, errs(filter.ErrRange)},
+		{"outside family with no poles", "order", outsideFamily{h: filter.Transfer{Gain: 1}}, errs(filter.ErrRange)},
+		{"outside family of zero gain", "order", outsideFamily{h: filter.Transfer{Poles: []complex128{-1}}}, errs(filter.ErrRange)},
+	} {
+		for _, b := range bands {
+			rows = append(rows, badInput{fmt.Sprintf("Design %v: %s", b, c.reason), c.want, c.field,
+				func() error { _, err := filter.Design(c.f, okSpec(b)); return err }})
+		}
 	}
 	tight := filter.Spec{Band: filter.Lowpass, PassHz: [2]float64{1000}, StopHz: [2]float64{1000.01}, RippleDB: 0.01, AttenDB: 200}
 	for _, f := range families() {
@@ -406,3 +424,13 @@ func TestBadInputsFilter(t *testing.T) {
 		noPanic(t, fmt.Sprintf("Transfer%+v.AtHz", h), func() { _ = h.AtHz(1e3); _ = h.At(complex(nan, nan)) })
 	}
 }
+
+// outsideFamily is a Family defined outside package filter that returns
+// the same prototype (or error) for every order.
+type outsideFamily struct {
+	h   filter.Transfer
+	err error
+}
+
+func (o outsideFamily) Prototype(int) (filter.Transfer, error) { return o.h, o.err }
+func (outsideFamily) String() string                           { return "Outside" }
