@@ -170,6 +170,25 @@ func filterBadInputs() []badInput {
 					func() error { _, err := filter.Design(f, c.s); return err }})
 		}
 	}
+	// DesignOrder: bad orders for every family and band, bad masks.
+	for _, f := range families() {
+		for _, b := range bands {
+			for _, n := range []int{0, -1, math.MinInt, 1e9, math.MaxInt, maxOrder(f) + 1} {
+				rows = append(rows, badInput{fmt.Sprintf("DesignOrder %v %v order %d", f, b, n), errs(filter.ErrOrder), "order",
+					func() error { _, err := filter.DesignOrder(f, okSpec(b), n); return err }})
+			}
+		}
+	}
+	for _, c := range badSpecs() {
+		rows = append(rows, badInput{"DesignOrder: " + c.reason, errs(filter.ErrSpec), c.field,
+			func() error { _, err := filter.DesignOrder(filter.Butterworth{}, c.s, 4); return err }})
+	}
+	rows = append(rows,
+		badInput{"DesignOrder nil family", errs(filter.ErrParam), "Family", func() error { _, err := filter.DesignOrder(nil, okSpec(filter.Lowpass), 4); return err }},
+		badInput{"DesignOrder looser ripple", errs(filter.ErrParam), "RippleDB", func() error {
+			_, err := filter.DesignOrder(filter.Chebyshev{RippleDB: 3}, okSpec(filter.Lowpass), 4)
+			return err
+		}})
 	// Design: family parameters bad or looser than the mask's; nil family;
 	// a mask that needs an order beyond the range.
 	lp := okSpec(filter.Lowpass)

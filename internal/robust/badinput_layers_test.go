@@ -521,6 +521,16 @@ func seriesBadInputs(t *testing.T) []badInput {
 				badInput{"Ranking: " + c.reason, c.want, c.field, func() error { _, err := c.a.Ranking(ch); return err }})
 		}
 	}
+	sp, err := series.Analysis{Trials: 20, Hz: []float64{1e3}, Tolerances: series.Tolerances{Resistor: 0.01, Capacitor: 0.05}}.MonteCarlo(ch)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []float64{nan, inf, ninf, 0, 1, -0.5, 1.5} {
+		rows = append(rows, badInput{fmt.Sprintf("YieldInterval confidence %g", c), errs(series.ErrPolicy), "confidence",
+			func() error { _, _, err := sp.YieldInterval(c); return err }})
+	}
+	rows = append(rows, badInput{"YieldInterval of no trials", errs(series.ErrPolicy), "trials",
+		func() error { _, _, err := (series.Spread{}).YieldInterval(0.95); return err }})
 	rows = append(rows, badInput{"WriteCSV failing writer", errs(io.ErrShortWrite), "write CSV",
 		func() error { return series.WriteCSV(failWriter{}, nil) }})
 	return rows
@@ -565,5 +575,28 @@ func TestBadInputsLayers(t *testing.T) {
 	noPanic(t, "Sweep of nothing", func() { _ = response.Sweep(ch, nil) })
 	noPanic(t, "Designator of odd input", func() { _ = series.Designator(-1, ""); _ = series.Designator(1<<40, "\x00") })
 	noPanic(t, "BOM of nothing", func() { _ = series.BOM(nil) })
+	for _, st := range []filter.Stage{{}, {Kind: 9, Order: 7, F0Hz: nan, Q: inf}} {
+		noPanic(t, fmt.Sprintf("AutoKind(%+v)", st), func() { _ = topology.AutoKind(st) })
+	}
+	for _, x := range []float64{nan, inf, -1, 0} {
+		noPanic(t, fmt.Sprintf("SlewRateVPerUs(%g)", x), func() { _ = topology.SlewRateVPerUs(x, x); _ = topology.SlewRateVPerUs(1, x) })
+	}
+	for _, c := range []topology.Circuit{{}, {Kind: 77}, {Kind: topology.SallenKey, Parts: []topology.Part{{Ref: "R1", Value: nan}}}} {
+		noPanic(t, fmt.Sprintf("methods of malformed %+v", c), func() {
+			_ = c.RuleOfThumbGBWHz()
+			_ = c.Inverting()
+			_ = c.OpAmps()
+			_ = c.Values()
+			_ = c.AtHzWith(topology.OpAmp{GBWHz: nan}, 1e3)
+			_ = c.Kind.String()
+		})
+	}
+	noPanic(t, "String of invalid enums", func() {
+		_ = filter.Band(99).String() + filter.StageKind(-3).String() + filter.BesselNorm(7).String() + (filter.Bessel{Norm: 9}).String()
+		_ = response.Region(0).String() + series.Distribution(5).String() + series.PartKind(0).String() + (series.Series{}).String()
+		_ = (series.Series{}).Tolerance() + float64((series.Series{}).Len())
+		_ = (series.Series{}).Mantissas()
+		_ = (series.Pair{A: nan, B: -1}).String()
+	})
 	t.Logf("%d bad inputs tried in this package so far (with -run TestBadInputs: all of filter, response, topology, series)", triedBad.Load())
 }
