@@ -419,5 +419,30 @@ func TestDocumentedOrderRange(t *testing.T) {
 			}
 		}
 		checkStages(t, what, h)
+		// The whole order range placed on a mask of every band: DesignOrder
+		// at the highest order gives a finite, stable filter that factors
+		// exactly (bandpass and bandstop: twice the poles).
+		for _, b := range bands {
+			fam := c.f
+			if e, ok := fam.(filter.Elliptic); ok {
+				e.AttenDB = 0 // take the mask's
+				fam = e
+			}
+			mask := maskAt(fam, b, 1e3, 40)
+			if _, ok := fam.(filter.Elliptic); ok {
+				mask.AttenDB = 120
+			}
+			if _, ok := fam.(filter.InverseChebyshev); ok {
+				mask.AttenDB = 60
+			}
+			h, err := filter.DesignOrder(fam, mask, c.max)
+			w := fmt.Sprintf("DesignOrder %v %v %d", fam, b, c.max)
+			if err != nil {
+				t.Errorf("%s: %v", w, err)
+				continue
+			}
+			finiteTransfer(t, w, h)
+			checkStages(t, w, h)
+		}
 	}
 }
