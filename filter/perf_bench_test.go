@@ -34,7 +34,8 @@ func butterworthMask(n int) Spec {
 
 // BenchmarkPerfDesignPath times the design path of the comparison with
 // SciPy, MinOrder + Design + Stages, and each of its steps, for the two
-// masks.
+// masks; StagesGainLast is Stages without the dynamic-range peak searches
+// (all gain in the last stage), to show what those cost.
 func BenchmarkPerfDesignPath(b *testing.B) {
 	cases := []struct {
 		name string
@@ -69,6 +70,14 @@ func BenchmarkPerfDesignPath(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
 				if _, err := h.Stages(); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+		b.Run(c.name+"/StagesGainLast", func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := h.StagesWith(StageOptions{Gain: GainLast}); err != nil {
 					b.Fatal(err)
 				}
 			}

@@ -207,8 +207,9 @@ func median(x []float64) float64 {
 	return (s[n/2-1] + s[n/2]) / 2
 }
 
-// designPath is the design path of the target: MinOrder, Design and Stages.
-func designPath(f filter.Family, s filter.Spec) (int, []filter.Stage, error) {
+// designPath is the design path of the target: MinOrder, Design and Stages
+// (with the gain plan opt; the default is dynamic-range scaling).
+func designPath(f filter.Family, s filter.Spec, opt filter.StageOptions) (int, []filter.Stage, error) {
 	n, err := filter.MinOrder(f, s)
 	if err != nil {
 		return 0, nil, err
@@ -217,7 +218,7 @@ func designPath(f filter.Family, s filter.Spec) (int, []filter.Stage, error) {
 	if err != nil {
 		return 0, nil, err
 	}
-	st, err := h.Stages()
+	st, err := h.StagesWith(opt)
 	return n, st, err
 }
 
@@ -243,7 +244,7 @@ func measureGo(runs int) (*goFigures, error) {
 		{"design/chebyshev-bandpass", filter.Chebyshev{}, bandpassMask},
 	}
 	for _, d := range designs {
-		n, _, err := designPath(d.fam, d.spec)
+		n, _, err := designPath(d.fam, d.spec, filter.StageOptions{})
 		if err != nil {
 			return nil, fmt.Errorf("%s: %w", d.name, err)
 		}
@@ -251,7 +252,16 @@ func measureGo(runs int) (*goFigures, error) {
 		record(d.name, func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				if _, _, err := designPath(d.fam, d.spec); err != nil {
+				if _, _, err := designPath(d.fam, d.spec, filter.StageOptions{}); err != nil {
+					fail(b, err)
+				}
+			}
+		})
+		// The same with all gain in the last stage: no peak searches.
+		record(d.name+"/gain-last", func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, _, err := designPath(d.fam, d.spec, filter.StageOptions{Gain: filter.GainLast}); err != nil {
 					fail(b, err)
 				}
 			}
@@ -651,6 +661,8 @@ func printTable(g *goFigures, sp *scipyResult) {
 	}
 	row("design/elliptic-lowpass", "design/elliptic-lowpass", 200)
 	row("design/chebyshev-bandpass", "design/chebyshev-bandpass", 200)
+	row("design/elliptic-lowpass/gain-last", "design/elliptic-lowpass", 0)
+	row("design/chebyshev-bandpass/gain-last", "design/chebyshev-bandpass", 0)
 	row("sweep/gain-phase-delay/1000", "sweep/gain-phase/1000", 2)
 	row("sweep/gain-phase-delay/1000", "sweep/gain-phase-delay/1000", 2)
 	row("sweep/allocating/1000", "sweep/gain-phase/1000", 0)
@@ -660,7 +672,8 @@ func printTable(g *goFigures, sp *scipyResult) {
 	row("sweep/gain-phase-delay/10000", "sweep/gain-phase-delay/10000", 0)
 	tw.Flush()
 	fmt.Println(`
-  design: rolloff MinOrder + Design + Stages (verified least order, stage table);
+  design: rolloff MinOrder + Design + Stages (verified least order, stage table with
+          dynamic-range gain scaling; gain-last: StagesWith GainLast, no peak searches);
           scipy ellipord/cheb1ord + ellip/cheby1(analog, zpk) + zpk2sos(analog).
   sweep:  rolloff SweepInto: gain dB, unwrapped phase, exact group delay, into a reused slice
           (sweep/allocating: Sweep, a new slice per call); scipy freqs_zpk + 20·log10|H| +
