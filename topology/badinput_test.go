@@ -48,7 +48,7 @@ func TestBadInput(t *testing.T) {
 		{"resistors out of range", lp, Options{CapF: 1e-12, CMinF: 1e-15}, ErrRange},
 		{"equal-component Q 1/2", with(func(s *filter.Stage) { s.Q = 0.5 }), Options{Kind: SallenKeyEqual}, ErrUnrealizable},
 		{"equal-component gain above K", with(func(s *filter.Stage) { s.Gain = 2.5 }), Options{Kind: SallenKeyEqual}, ErrUnrealizable},
-		{"state-variable Q too low", with(func(s *filter.Stage) { s.Q = 0.2 }), Options{Kind: StateVariable}, ErrUnrealizable},
+		{"state-variable lowpass Q too low for its gain", with(func(s *filter.Stage) { s.Q = 0.2 }), Options{Kind: StateVariable}, ErrUnrealizable},
 	}
 	for _, tc := range tests {
 		_, err := RealizeStage(tc.st, tc.opt)

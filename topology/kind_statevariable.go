@@ -42,13 +42,18 @@ func init() {
 	})
 }
 
-// svGainA is the summer's input gain a = R3/R1 for stage st.
+// svGainA is the summer's input gain a = R3/R1 for stage st. The lowpass,
+// highpass and bandpass outputs carry a as their gain, so a is fixed by the
+// stage; the notch's gain is set by its own summer (R10), so there a is free
+// and is raised for low Q: the damping divider needs Q·(2 + a) > 1, and
+// a = max(1, 1.5/Q − 2) keeps Q·(2 + a) ≥ 1.5, R4 ≥ R0/2, for every Q
+// (a wide bandstop's notch sections have Q well below 1/3).
 func svGainA(st filter.Stage) float64 {
 	switch st.Kind {
 	case filter.BandpassStage:
 		return abs(st.Gain) / st.Q
 	case filter.NotchStage:
-		return 1
+		return math.Max(1, 1.5/st.Q-2)
 	}
 	return abs(st.Gain)
 }
@@ -58,9 +63,10 @@ func svGainA(st filter.Stage) float64 {
 //
 // Synthesis: C1 = C2 = CapF, R6 = 1/(ω0C1), R7 = 1/(ω0C2) (τ1 = τ2 = 1/ω0),
 // R2 = R3 = R0 = √(R6R7) (b = 1), R1 = R0/a with a = G (lowpass,
-// highpass), G/Q (bandpass) or 1 (notch); the damping divider
-// R5/(R4+R5) = 1/(Q(2+a)): R5 = R0, R4 = R0·(Q(2+a) − 1), which needs
-// Q > 1/(2+a). Notch: R9 = R0, R8 = R0·ωz²/ω0², R10 = G·R0.
+// highpass), G/Q (bandpass) or max(1, 1.5/Q − 2) (notch, see svGainA); the
+// damping divider R5/(R4+R5) = 1/(Q(2+a)): R5 = R0, R4 = R0·(Q(2+a) − 1),
+// which needs Q > 1/(2+a) (always met by a notch). Notch: R9 = R0,
+// R8 = R0·ωz²/ω0², R10 = G·R0/a (the lowpass output's DC gain is −a).
 func buildStateVariable(sk filter.StageKind, _, _ int) *design {
 	name := func(n string) string {
 		switch {
@@ -111,7 +117,7 @@ func buildStateVariable(sk filter.StageKind, _, _ int) *design {
 			ratio := st.ZeroHz / st.F0Hz
 			x[r9] = r0
 			x[r8] = r0 * ratio * ratio
-			x[r10] = abs(st.Gain) * r0
+			x[r10] = abs(st.Gain) * r0 / a
 		}
 		return nil
 	})
