@@ -57,6 +57,10 @@ const (
 	prodShift = 800
 )
 
+// degPerRad is 180/π: the fast path multiplies by it instead of
+// dividing (within an ulp of ph·180/π).
+const degPerRad = 180 / math.Pi
+
 // db20Log2 is 20·log10(2), the gain in dB of one binary exponent.
 const db20Log2 = 6.020599913279624
 
@@ -370,12 +374,12 @@ func sweepTransferFast(dst []Point, h filter.Transfer, hz []float64) {
 		w := 2 * math.Pi * f
 		if w > 0 {
 			if gdb, ph, d, ok := pointPos(g0, neg, &z, &p, w); ok {
-				dst[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * 180 / math.Pi, DelayS: d}
+				dst[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * degPerRad, DelayS: d}
 				continue
 			}
 		}
 		if gdb, ph, d, ok := pointFast(g0, neg, &z, &p, w); ok {
-			dst[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * 180 / math.Pi, DelayS: d}
+			dst[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * degPerRad, DelayS: d}
 			continue
 		}
 		ph, d := phaseDelay(h, w)
