@@ -98,6 +98,12 @@ func main() {
 	var spWG sync.WaitGroup
 	goFirst := make(chan struct{})
 	if !*noPython {
+		spErr = checkSciPy(*python)
+		if spErr != nil {
+			fmt.Printf("SciPy side will NOT RUN: %v\n", spErr)
+		}
+	}
+	if !*noPython && spErr == nil {
 		// SciPy runs after the Go side, in this same process's run, so the
 		// two never compete for the cores.
 		spWG.Add(1)
@@ -595,14 +601,19 @@ func floorProducts(coef []biquad, stages int, w2 []float64, workers int) int {
 	return total
 }
 
-// runSciPy runs the embedded scipy_side.py and decodes its JSON.
-func runSciPy(python string, runs int) (*scipyResult, error) {
+// checkSciPy reports whether python exists and imports scipy.signal.
+func checkSciPy(python string) error {
 	if _, err := os.Stat(python); err != nil {
-		return nil, fmt.Errorf("%s not found: %w", python, err)
+		return fmt.Errorf("%s not found: %w", python, err)
 	}
 	if out, err := exec.Command(python, "-c", "import scipy.signal").CombinedOutput(); err != nil {
-		return nil, fmt.Errorf("%s cannot import scipy.signal: %v: %s", python, err, strings.TrimSpace(string(out)))
+		return fmt.Errorf("%s cannot import scipy.signal: %v: %s", python, err, strings.TrimSpace(string(out)))
 	}
+	return nil
+}
+
+// runSciPy runs the embedded scipy_side.py and decodes its JSON.
+func runSciPy(python string, runs int) (*scipyResult, error) {
 	cmd := exec.Command(python, "-", fmt.Sprint(runs))
 	cmd.Stdin = strings.NewReader(scipySide)
 	cmd.Stderr = os.Stderr
