@@ -122,7 +122,10 @@ func (c Chain) writeDeck(w io.Writer, op *OpAmp) error {
 		}
 	}
 	fmt.Fprintf(bw, ".end\n")
-	return bw.Flush()
+	if err := bw.Flush(); err != nil {
+		return fmt.Errorf("topology: WriteSPICE: %w", err)
+	}
+	return nil
 }
 
 // describe is the comment line of one stage.

@@ -27,16 +27,24 @@ func MarshalDocument(d Document) ([]byte, error) {
 }
 
 // UnmarshalDocument reads a document written by MarshalDocument, strictly
-// (unknown fields are errors), and checks its Version.
+// (unknown fields are errors), and checks its Version and that its request
+// resolves (a mask, known families and series). Errors wrap ErrDocument (and,
+// for the request, the *FieldError naming the field).
 func UnmarshalDocument(b []byte) (Document, error) {
 	var d Document
 	dec := json.NewDecoder(bytes.NewReader(b))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&d); err != nil {
-		return Document{}, fmt.Errorf("pipeline: document JSON: %w", err)
+		return Document{}, fmt.Errorf("pipeline: document JSON: %w: %w", err, ErrDocument)
 	}
 	if d.Version != Version {
-		return Document{}, fmt.Errorf("pipeline: document version %q (want %q)", d.Version, Version)
+		return Document{}, fmt.Errorf("pipeline: document version %q (want %q): %w", d.Version, Version, ErrDocument)
+	}
+	// The request a document carries was resolved before the design ran:
+	// it must resolve again unchanged, so a document that could not have
+	// been written (no mask, a bad series name) is refused here.
+	if _, err := d.Request.Resolve(); err != nil {
+		return Document{}, fmt.Errorf("pipeline: document %w: %w", WithPath(err, "request"), ErrDocument)
 	}
 	return d, nil
 }

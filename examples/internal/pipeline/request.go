@@ -20,6 +20,11 @@ import (
 // Every such error is a *FieldError wrapping ErrRequest.
 var ErrRequest = errors.New("pipeline: bad request")
 
+// ErrDocument reports a result document that UnmarshalDocument refuses:
+// JSON that does not decode strictly, another version, or a request inside
+// it that does not resolve (then ErrRequest is wrapped too).
+var ErrDocument = errors.New("pipeline: bad document")
+
 // ErrDesign reports a valid request that no candidate can realize: every
 // family failed (too high an order, a stage no circuit of the kind can
 // build, parts out of range). The message lists each family's reason.
