@@ -36,7 +36,11 @@ func valuesOf(d *design, parts []Part, buf *[maxParts]float64) ([]float64, error
 // ideal op-amps (exact nullors, not a large gain). It does not allocate.
 //
 // Special cases are: a Circuit whose Kind, Stage and Parts do not fit a
-// template, or with a non-positive part, gives NaN; f = 0 is DC.
+// template, or with a non-positive part, gives NaN; f = 0 is DC; a frequency
+// so high that the nodal matrix (entries 2π·f·C) overflows float64 in the
+// elimination, above about 1e150 Hz for realistic parts, gives NaN rather
+// than a value (no circuit is analyzed there: the model stops meaning
+// anything many decades lower).
 func (c Circuit) AtHz(f float64) complex128 {
 	return c.at(mna.Amp{}, f)
 }
