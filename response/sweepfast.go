@@ -21,6 +21,10 @@ import (
 //     argument, 2a(a² + β² + ω²)/|f|² (common practice: differentiate
 //     atan2(2aω, a² + β² − ω²)). The real part is formed as
 //     a² + (β−ω)(β+ω) so that it keeps its relative accuracy near ω = β.
+//   - A zero pair on the jω axis (a = 0: the transmission zeros of
+//     elliptic and inverse Chebyshev filters) is the real factor
+//     (β−ω)(β+ω), whose argument is 0 or ±π (+π for ω > β, as the two
+//     factors' ±π/2 sum to).
 //   - Every other root (real, unpaired, or in the right half-plane) is its
 //     own factor a + jb, b = ω − Im r.
 //   - The arguments are summed without evaluating them: the complex product
@@ -43,7 +47,9 @@ import (
 //     the count adds that turn.
 //   - P is rescaled by exact powers of two when it leaves [2⁻⁴⁰⁰, 2⁴⁰⁰], so
 //     the gain of a high-order filter far in its stopband neither
-//     underflows nor overflows; the scale enters the gain in dB.
+//     underflows nor overflows; the scale enters the gain in dB (where |H|
+//     is below the smallest float64, this gives its true gain, where the
+//     per-factor product, and At, give 0 and −Inf dB).
 //
 // A frequency where this cannot be done (a factor exactly zero, a factor
 // whose squared size overflows) is computed by the per-factor path of
