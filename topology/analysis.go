@@ -64,16 +64,18 @@ func (c Circuit) at(a mna.Amp, f float64) complex128 {
 	return h
 }
 
-// Inverting reports whether the circuit inverts: its AtHz is the negative
-// of its Stage's transfer function (for a positive Stage.Gain). Multiple
-// feedback and inverting first-order circuits invert; the state-variable
-// lowpass and highpass outputs invert (bandpass and notch do not); the
-// Tow-Thomas bandpass and notch outputs invert (lowpass does not); the
-// Sallen-Key and RC + follower circuits do not. False for a Circuit that
-// fits no template.
+// Inverting reports whether the circuit's AtHz is the negative of its
+// Stage's transfer function. For a positive Stage.Gain that is the
+// circuit's own inversion: multiple feedback and inverting first-order
+// circuits invert; the state-variable lowpass and highpass outputs invert
+// (bandpass and notch do not); the Tow-Thomas bandpass and notch outputs
+// invert (lowpass does not); the Sallen-Key and RC + follower circuits do
+// not. A negative Stage.Gain is realized with |Gain|, so it flips the
+// answer: a Sallen-Key stage of gain −2 is Inverting (its output is +2·H,
+// the stage asks for −2·H). False for a Circuit that fits no template.
 func (c Circuit) Inverting() bool {
 	d, err := c.design()
-	return err == nil && d.inverting
+	return err == nil && d.inverting != (c.Stage.Gain < 0)
 }
 
 // OpAmps returns the number of op-amps of the circuit (0 for a Circuit that
@@ -433,8 +435,8 @@ func (c Chain) AtHz(f float64) complex128 {
 	return h
 }
 
-// Inverting reports whether the chain inverts overall (an odd number of
-// inverting circuits).
+// Inverting reports whether the chain's AtHz is the negative of the product
+// of its stages' transfer functions: an odd number of Inverting circuits.
 func (c Chain) Inverting() bool {
 	inv := false
 	for _, ci := range c.Circuits {

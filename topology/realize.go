@@ -93,8 +93,8 @@ func AutoKind(st filter.Stage) Kind {
 // RealizeStage synthesizes one stage as a circuit of kind opt.Kind (Auto:
 // AutoKind). The parts are positive and inside the Options' ranges; the
 // circuit's AtHz equals st.Transfer().AtHz, negated when the circuit is
-// Inverting (and, for a negative st.Gain, realized with |Gain|: the sign
-// is then the other way), to a few 1e-12 relative (worst seen in 21,000
+// Inverting (a negative st.Gain is realized with |Gain|, which Inverting
+// accounts for), to a few 1e-12 relative (worst seen in 21,000
 // random stages: 4e-12, relative to the passband level near a notch zero).
 //
 // Errors wrap ErrStage (st fails Validate; also filter.ErrStage), ErrKind
