@@ -62,3 +62,17 @@ func TestCircuitJSONChecked(t *testing.T) {
 		t.Errorf("negative part: %v, want ErrParts", err)
 	}
 }
+
+// TestChainJSONStrict: unknown fields are refused at every level.
+func TestChainJSONStrict(t *testing.T) {
+	for _, doc := range []string{
+		`{"kind": "nope"}`,
+		`{"circuits": [], "extra": 1}`,
+		`{"circuits": [{"kind": "sallen-key", "stage": {"kind": "lowpass", "order": 2, "f0_hz": 1000, "q": 0.7, "gain": 1}, "parts": [], "note": "x"}]}`,
+	} {
+		var ch Chain
+		if err := json.Unmarshal([]byte(doc), &ch); !errors.Is(err, ErrParts) {
+			t.Errorf("%s: %v, want ErrParts", doc, err)
+		}
+	}
+}
