@@ -104,8 +104,11 @@ type MaskResult struct {
 //
 // Errors wrap filter.ErrSpec for a spec that fails filter.Spec.Validate,
 // ErrGrid for an edge above MaxSearchHz, and
-// ErrSystem when the gain of sys is NaN in a region.
+// ErrSystem for a nil sys or when the gain of sys is NaN in a region.
 func CheckMask(sys System, spec filter.Spec) (MaskResult, error) {
+	if err := checkSystem(sys); err != nil {
+		return MaskResult{}, err
+	}
 	if err := spec.Validate(); err != nil {
 		return MaskResult{}, fmt.Errorf("response: mask: %w", err)
 	}

@@ -30,8 +30,12 @@ func (e Extremes) RippleDB() float64 { return e.MaxDB - e.MinDB }
 // 1e-7 relative (an extremum is flat).
 //
 // Errors wrap ErrGrid for a bad band (loHz not positive and finite, hiHz
-// not above it) and ErrSystem when the gain of s is NaN in the band.
+// not above it) and ErrSystem for a nil s or when the gain of s is NaN in
+// the band.
 func GainExtremes(s System, loHz, hiHz float64) (Extremes, error) {
+	if err := checkSystem(s); err != nil {
+		return Extremes{}, err
+	}
 	if err := checkBand("loHz", loHz, "hiHz", hiHz); err != nil {
 		return Extremes{}, err
 	}
@@ -64,6 +68,9 @@ func PassbandRippleDB(s System, loHz, hiHz float64) (float64, error) {
 // [loHz, hiHz], in dB (minus the largest gain there), and the frequency
 // where it occurs (see GainExtremes for accuracy and errors).
 func StopbandAttenDB(s System, loHz, hiHz float64) (attenDB, atHz float64, err error) {
+	if err := checkSystem(s); err != nil {
+		return 0, 0, err
+	}
 	if err := checkBand("loHz", loHz, "hiHz", hiHz); err != nil {
 		return 0, 0, err
 	}
@@ -82,6 +89,9 @@ func StopbandAttenDB(s System, loHz, hiHz float64) (attenDB, atHz float64, err e
 // frequency where it occurs, refined between grid points (see GainExtremes
 // for accuracy and errors).
 func PeakGain(s System, loHz, hiHz float64) (gainDB, atHz float64, err error) {
+	if err := checkSystem(s); err != nil {
+		return 0, 0, err
+	}
 	if err := checkBand("loHz", loHz, "hiHz", hiHz); err != nil {
 		return 0, 0, err
 	}
@@ -118,8 +128,12 @@ func (e Edges) WidthHz() float64 { return e.UpperHz - e.LowerHz }
 // from the ripple maximum.
 //
 // Errors wrap ErrGrid for a bad band or a dropDB that is not positive and
-// finite, and ErrSystem when the gain of s is NaN in the band.
+// finite, and ErrSystem for a nil s or when the gain of s is NaN in the
+// band.
 func Bandwidth(s System, dropDB, loHz, hiHz float64) (Edges, error) {
+	if err := checkSystem(s); err != nil {
+		return Edges{}, err
+	}
 	if !(dropDB > 0) || math.IsInf(dropDB, 0) {
 		return Edges{}, fmt.Errorf("response: dropDB %g is not positive and finite: %w", dropDB, ErrGrid)
 	}

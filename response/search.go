@@ -48,6 +48,26 @@ func checkBand(loName string, lo float64, hiName string, hi float64) error {
 	return nil
 }
 
+// checkSystem reports a nil System, or a nil *filter.Transfer in one,
+// wrapping ErrSystem: an error-returning measurement cannot evaluate it.
+func checkSystem(s System) error {
+	if isNilSystem(s) {
+		return fmt.Errorf("response: nil System: %w", ErrSystem)
+	}
+	return nil
+}
+
+// isNilSystem reports whether s is a nil interface or holds a nil
+// *filter.Transfer (other typed nil pointers are the caller's own type and
+// cannot be told apart without reflection).
+func isNilSystem(s System) bool {
+	if s == nil {
+		return true
+	}
+	h, ok := s.(*filter.Transfer)
+	return ok && h == nil
+}
+
 // scan is a band sampled on a log grid: x = ln f, g = gain in dB.
 type scan struct {
 	s       System
@@ -316,9 +336,12 @@ func (sc scan) crossing(level float64, down bool) (hz float64, ok bool, err erro
 // touches the level only tangentially between grid points may be missed.
 //
 // Errors wrap ErrGrid for loHz not positive and finite, hiHz not finite, not
-// above loHz or above MaxSearchHz, or levelDB NaN or infinite; ErrSystem when the gain of s is
-// NaN in the band; ErrNoCrossing when the gain does not reach the level.
+// above loHz or above MaxSearchHz, or levelDB NaN or infinite; ErrSystem for a nil s or when the gain
+// of s is NaN in the band; ErrNoCrossing when the gain does not reach the level.
 func CrossingHz(s System, levelDB, loHz, hiHz float64) (float64, error) {
+	if err := checkSystem(s); err != nil {
+		return 0, err
+	}
 	if math.IsNaN(levelDB) || math.IsInf(levelDB, 0) {
 		return 0, fmt.Errorf("response: levelDB %g is not finite: %w", levelDB, ErrGrid)
 	}

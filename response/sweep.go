@@ -42,14 +42,21 @@ const NumericDelayStep = 1e-3
 
 // Sweep evaluates s at each frequency of hz (hertz, in the order given; any
 // grid, e.g. gonum's floats.LogSpan) and returns a new slice of points. It is
-// SweepInto with a nil dst.
+// SweepInto with a nil dst. A nil s (or a nil *filter.Transfer) is a
+// programmer's contract breach: Sweep panics with "response: Sweep of a nil
+// System".
 func Sweep(s System, hz []float64) []Point {
+	if isNilSystem(s) {
+		panic("response: Sweep of a nil System")
+	}
 	return SweepInto(nil, s, hz)
 }
 
 // SweepInto is Sweep writing into dst, which it returns. A nil dst is
 // allocated; otherwise len(dst) must equal len(hz), or SweepInto panics (a
-// programmer's contract breach). With a non-nil dst it does not allocate.
+// programmer's contract breach). A nil s (or a nil *filter.Transfer) is
+// also a contract breach: SweepInto panics with "response: SweepInto of a
+// nil System". With a non-nil dst it does not allocate.
 //
 // For a filter.Transfer (value or pointer) every field is exact to rounding:
 // the phase is Σ arg(jω − zᵢ) − Σ arg(jω − pᵢ) + arg(Gain), each factor on
@@ -80,6 +87,9 @@ func Sweep(s System, hz []float64) []Point {
 // Special cases are: a NaN frequency gives a point of NaNs (the unwrapping
 // continues from the previous point); |H| = 0 gives GainDB = −Inf.
 func SweepInto(dst []Point, s System, hz []float64) []Point {
+	if isNilSystem(s) {
+		panic("response: SweepInto of a nil System")
+	}
 	if dst == nil {
 		dst = make([]Point, len(hz))
 	} else if len(dst) != len(hz) {
