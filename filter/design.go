@@ -14,8 +14,9 @@ const maxSlackAttenDB = 150
 
 // ellipticAtten returns the stopband attenuation in dB that an elliptic
 // filter of order n reaches with ripple rp dB and selectivity 1/sel: the
-// degree equation n·K'(k)/K(k) = K'(k1)/K(k1) (DLMF 22.2, as in
-// resolved.estimate) solved for the discrimination k1 = εp/εs, then
+// degree equation n·K'(k)/K(k) = K'(k1)/K(k1) (DLMF 22.2, the equation of
+// MinOrder's Elliptic order estimate) solved for the discrimination
+// k1 = εp/εs, then
 // As = 10·log10(1 + εp²/k1²).
 func ellipticAtten(n int, sel, rp float64) float64 {
 	k, kc := 1/sel, math.Sqrt((sel-1)*(sel+1))/sel

@@ -184,17 +184,27 @@ func (r resolved) estimate(sel float64) (n float64, ok bool) {
 // met is the spec's with the family's stricter values in their place.
 //
 // Butterworth, Chebyshev, InverseChebyshev and Elliptic start from the
-// closed-form estimate (see resolved.estimate); Bessel and families
-// defined outside this package search the orders upward from 1. In every
-// case the order is verified by designing the filter and evaluating it over
-// the passband and stopband (edges exactly, and a log grid in between):
+// classical closed-form order of the mask's lowpass equivalent, rounded
+// up: passband edge 1 rad/s and stopband edge at the selectivity sel
+// (StopHz/PassHz for a lowpass, PassHz/StopHz for a highpass, the nearer
+// stopband edge mapped through the band transform for bandpass and
+// bandstop), and with D = (10^(AttenDB/10) − 1)/(10^(RippleDB/10) − 1),
+// log D / (2·log sel) for Butterworth, acosh √D / acosh sel for Chebyshev
+// and InverseChebyshev, and the degree equation of complete elliptic
+// integrals for Elliptic. Bessel and families defined outside this package
+// search the orders upward from 1. In every case the order is verified
+// by designing the filter and evaluating it over the passband and
+// stopband (edges exactly, and a log grid in between):
 // the order is raised while the design falls short and lowered while one
 // order less also meets the mask (floating-point rounding where the exact
 // order is a whole number), with MaskToleranceDB of allowance. For
 // bandpass and bandstop masks the transform's centre and width are chosen
-// within what the mask allows to need the least order (see Spec.plan), so
-// MinOrder is never above the classical estimates that keep the passband
-// edges fixed.
+// within what the mask allows to need the least order: a bandpass keeps
+// the mask's passband edges (that choice is optimal); a bandstop may move
+// its passband edges inward, within PassHz, to the centre (and the widest
+// width it allows) that maximizes sel, the fixed edges being one of the
+// candidates. So MinOrder is never above the classical estimates that keep
+// the passband edges fixed.
 //
 // The error wraps ErrSpec for an invalid spec (see Spec.Validate), ErrParam
 // for a bad or looser family parameter (and for a Family defined outside
@@ -229,9 +239,10 @@ func MinOrder(f Family, s Spec) (int, error) {
 //     starts below StopHz).
 //
 // For bandpass and bandstop masks "edge" means the edge of the lowpass
-// equivalent: the transform's centre and width come from Spec.plan, so for
-// masks that are not geometrically symmetric one passband edge may lie
-// inside the mask's allowance (more than required) rather than on it.
+// equivalent: the transform's centre and width are those MinOrder
+// chooses, so for a bandstop mask that is not geometrically symmetric one
+// passband edge may lie inside the mask's allowance (more than required)
+// rather than on it.
 //
 // Errors are those of MinOrder.
 func Design(f Family, s Spec) (Transfer, error) {
