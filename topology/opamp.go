@@ -240,8 +240,16 @@ func (c Circuit) RuleOfThumbGBWHz() float64 {
 // for a sine of peak amplitude peakV volts at freqHz hertz: the sine's
 // largest slope 2π·f·Vpeak (common practice: choose an op-amp with some
 // margin above it).
+//
+// Special cases are:
+//
+//	SlewRateVPerUs(peakV, f) = NaN for peakV ≤ 0, NaN or ±Inf
+//	SlewRateVPerUs(v, freqHz) = NaN for freqHz ≤ 0, NaN or ±Inf
 func SlewRateVPerUs(peakV, freqHz float64) float64 {
-	return 2 * math.Pi * freqHz * math.Abs(peakV) / 1e6
+	if !(peakV > 0) || math.IsInf(peakV, 1) || !(freqHz > 0) || math.IsInf(freqHz, 1) {
+		return math.NaN()
+	}
+	return 2 * math.Pi * freqHz * peakV / 1e6
 }
 
 // Predistort returns a copy of c whose parts are synthesized (with c's

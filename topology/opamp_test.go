@@ -131,6 +131,17 @@ func TestSlewRate(t *testing.T) {
 	if got := SlewRateVPerUs(10, 20e3); math.Abs(got-1.2566370614359172) > 1e-12 {
 		t.Errorf("got %g", got)
 	}
+	// No rate for an amplitude or frequency that is not positive and
+	// finite (a negative frequency gave a negative rate, a negative peak a
+	// positive one).
+	for _, x := range []float64{0, -1, -20e3, math.NaN(), math.Inf(1), math.Inf(-1)} {
+		if got := SlewRateVPerUs(10, x); !math.IsNaN(got) {
+			t.Errorf("SlewRateVPerUs(10, %g) = %g, want NaN", x, got)
+		}
+		if got := SlewRateVPerUs(x, 20e3); !math.IsNaN(got) {
+			t.Errorf("SlewRateVPerUs(%g, 20e3) = %g, want NaN", x, got)
+		}
+	}
 }
 
 func TestAtHzWithBadOpAmp(t *testing.T) {
