@@ -335,8 +335,13 @@ func roundParts(stage int, c topology.Circuit, res, cap Series) ([]float64, erro
 // design, the product of its circuits' target stages (Circuit.Stage). It is
 // evaluated at GridPoints log-spaced frequencies per band, ends included.
 // A circuit whose parts give an unstable or degenerate stage has no
-// steady-state response: that is an error wrapping ErrChain.
+// steady-state response: that is an error wrapping ErrChain, as is a chain
+// of no circuits (there is nothing to compare; Snap rejects it too). Bad
+// or missing bands wrap ErrPolicy.
 func DeviationDB(chain topology.Chain, bands []Band) (float64, error) {
+	if len(chain.Circuits) == 0 {
+		return math.NaN(), fmt.Errorf("series: deviation of a chain of no circuits: %w", ErrChain)
+	}
 	if len(bands) == 0 {
 		return math.NaN(), fmt.Errorf("series: deviation over no band: %w", ErrPolicy)
 	}

@@ -187,6 +187,10 @@ func TestSnapErrors(t *testing.T) {
 	if _, err := Snap(topology.Chain{}, Policy{Passband: antiAliasBand}); !errors.Is(err, ErrChain) {
 		t.Errorf("empty chain: %v", err)
 	}
+	// DeviationDB of an empty chain gave 0, nil: an error like Snap's.
+	if d, err := DeviationDB(topology.Chain{}, antiAliasBand); !errors.Is(err, ErrChain) || !math.IsNaN(d) {
+		t.Errorf("DeviationDB of an empty chain: %g, %v; want NaN and ErrChain", d, err)
+	}
 }
 
 // randomChain draws a chain of 1 to 4 stages of random kinds, pole

@@ -493,6 +493,10 @@ func seriesBadInputs(t *testing.T) []badInput {
 	}
 	rows = append(rows,
 		badInput{"DeviationDB no band", errs(series.ErrPolicy), "no band", func() error { _, err := series.DeviationDB(ch, nil); return err }},
+		badInput{"DeviationDB empty chain", errs(series.ErrChain), "no circuits", func() error {
+			_, err := series.DeviationDB(topology.Chain{}, []series.Band{{LoHz: 10, HiHz: 1e3}})
+			return err
+		}},
 		badInput{"DeviationDB reversed band", errs(series.ErrPolicy), "band", func() error { _, err := series.DeviationDB(ch, []series.Band{{LoHz: 10, HiHz: 1}}); return err }},
 		badInput{"DeviationDB infinite band", errs(series.ErrPolicy), "band", func() error { _, err := series.DeviationDB(ch, []series.Band{{LoHz: 10, HiHz: inf}}); return err }},
 	)
