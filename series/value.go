@@ -251,8 +251,11 @@ var engPrefix = map[int]string{-15: "f", -12: "p", -9: "n", -6: "µ", -3: "m", 0
 // reads the result back to v rounded to the printed figures, exactly.
 //
 // Special cases are: 0 gives "0" (with the unit), NaN gives "NaN", ±Inf
-// give "+Inf" and "-Inf"; beyond the prefixes' range the number leaves
-// [1, 1000) ("1000T", "0.001f").
+// give "+Inf" and "-Inf"; beyond the prefixes' range (|v| rounded below
+// 1e-15 or from 1e15 up, where the number would leave [1, 1000)) the value
+// is written with strconv's 'g' format at f's significant figures and the
+// unit after a space: Value(1e-30, "Ω") is "1e-30 Ω", Value(2.2e15, "")
+// is "2.2e+15". ParseValue reads these back too.
 func (f Format) Value(v float64, unit string) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return strconv.FormatFloat(v, 'g', -1, 64)
@@ -265,8 +268,10 @@ func (f Format) Value(v float64, unit string) string {
 		return "0" + sep + unit
 	}
 	digits, exp := decimal(v, f.digits())
+	if exp < -15 || exp >= 15 {
+		return strconv.FormatFloat(v, 'g', f.digits(), 64) + sep + unit
+	}
 	g := int(math.Floor(float64(exp)/3)) * 3
-	g = min(max(g, -15), 12)
 	intPart, frac := place(digits, exp-g+1)
 	if intPart == "" {
 		intPart = "0"

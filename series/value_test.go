@@ -4,6 +4,7 @@ import (
 	"errors"
 	"math"
 	"strconv"
+	"strings"
 	"testing"
 
 	"pgregory.net/rapid"
@@ -124,8 +125,19 @@ func TestFormatValue(t *testing.T) {
 		{0.47, "", "470m"},
 		{0, "Ω", "0 Ω"},
 		{-2.2e3, "", "-2.2k"},
-		{1e15, "", "1000T"},
-		{1e-18, "", "0.001f"},
+		// Beyond the prefixes: exponent notation, not "1000T" or "0.001f".
+		{1e15, "", "1e+15"},
+		{1e-18, "", "1e-18"},
+		{1e-30, "Ω", "1e-30 Ω"},
+		{1e30, "Ω", "1e+30 Ω"},
+		{-4.7e-20, "F", "-4.7e-20 F"},
+		{999.5e12, "", "1e+15"}, // rounds up out of the T range
+		{999.4e12, "", "999T"},
+		{1e-15, "F", "1 fF"},
+		{0.9996e-15, "F", "1 fF"}, // rounds up into the f range
+		{0.9994e-15, "F", "9.99e-16 F"},
+		{math.MaxFloat64, "", "1.8e+308"},
+		{5e-324, "", "4.94e-324"},
 		{math.NaN(), "F", "NaN"},
 		{math.Inf(1), "", "+Inf"},
 	}
@@ -157,6 +169,42 @@ func TestFormatCode(t *testing.T) {
 	if got := (Format{ASCII: true}).Code(2.2e-6); got != "2u2" {
 		t.Errorf("ASCII code: %q", got)
 	}
+}
+
+// TestRoundTripWide: Value round-trips through ParseValue over the whole
+// float64 exponent range, inside the prefixes and beyond them (where it
+// falls back to exponent notation), and never prints a number outside
+// [1, 1000) before a prefix.
+func TestRoundTripWide(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		e := rapid.Float64Range(-323, 308.25).Draw(t, "log10")
+		v := math.Pow(10, e)
+		if v == 0 || math.IsInf(v, 0) {
+			t.Skip("outside float64")
+		}
+		if rapid.Bool().Draw(t, "negative") {
+			v = -v
+		}
+		f := Format{Digits: rapid.IntRange(1, 17).Draw(t, "digits"), ASCII: rapid.Bool().Draw(t, "ascii")}
+		want := rounded(v, f.digits())
+		unit := rapid.SampledFrom([]string{"", "Ω", "F", "Hz"}).Draw(t, "unit")
+		s := f.Value(v, unit)
+		got, err := ParseValue(s)
+		if err != nil || got != want {
+			t.Fatalf("ParseValue(%q) = %v, %v; want %v (v = %v)", s, got, err, want, v)
+		}
+		num, _, _ := strings.Cut(strings.TrimPrefix(s, "-"), " ")
+		if !strings.ContainsAny(num, "e") {
+			// Engineering form: the number before the prefix is in [1, 1000).
+			end := strings.IndexFunc(num, func(r rune) bool { return !(r == '.' || r >= '0' && r <= '9') })
+			if end >= 0 {
+				num = num[:end]
+			}
+			if x, err := strconv.ParseFloat(num, 64); err != nil || x < 1 || x >= 1000 {
+				t.Fatalf("Value(%v) = %q: number %q outside [1, 1000)", v, s, num)
+			}
+		}
+	})
 }
 
 // TestRoundTrip: formatting then parsing gives back v rounded to the printed
