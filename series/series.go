@@ -280,12 +280,17 @@ func finite(v float64, what string, in float64) (float64, error) {
 
 // Nearest returns the standard value nearest to v by ratio (geometrically:
 // the member x minimizing |ln(x/v)|), so the result is within the series'
-// half-step of v. A tie (v exactly at the geometric mean of two neighbours)
-// goes to the larger value.
+// half-step of v (except at the ends of the float64 range, below). A tie
+// (v exactly at the geometric mean of two neighbours) goes to the larger
+// value.
 //
 // Special cases are: Nearest of zero, a negative value, NaN or ±Inf, of a
-// subnormal value (below 2.2e-308) or with a result beyond float64, or
-// Nearest of the zero Series, returns NaN (NearestValue says why).
+// subnormal value (below 2.2e-308), or Nearest of the zero Series, returns
+// NaN (NearestValue says why). At the ends of the float64 range, where the
+// nearest standard value is beyond it (above math.MaxFloat64, or below the
+// smallest normal float64) but v is not, the result is the neighbour on
+// the other side, the nearest standard value that float64 holds:
+// E24.Nearest(math.MaxFloat64) is 1.6e308 (1.8e308 overflows).
 func (s Series) Nearest(v float64) float64 {
 	x, _ := s.NearestValue(v)
 	return x
@@ -293,8 +298,8 @@ func (s Series) Nearest(v float64) float64 {
 
 // NearestValue is Nearest with an error for bad input: ErrSeries for the
 // zero Series, ErrValue for v not positive and finite, ErrRange for a
-// subnormal v or where the nearest value is beyond the normal float64
-// range.
+// subnormal v or where no standard value next to v is inside the normal
+// float64 range.
 func (s Series) NearestValue(v float64) (float64, error) {
 	if err := s.check(v, "nearest value"); err != nil {
 		return math.NaN(), err
@@ -304,11 +309,19 @@ func (s Series) NearestValue(v float64) (float64, error) {
 	// Compare v/lo with hi/v in logarithms, finite even where hi is
 	// beyond float64.
 	lv := math.Log(v)
+	near, other := t.value(k+1), t.value(k)
 	if lv-t.logValue(k) < t.logValue(k+1)-lv {
-		return finite(t.value(k), "nearest value", v)
+		near, other = other, near
 	}
-	return finite(t.value(k+1), "nearest value", v)
+	if !inNormalRange(near) && inNormalRange(other) {
+		// At an end of the float64 range: the nearest value it holds.
+		near = other
+	}
+	return finite(near, "nearest value", v)
 }
+
+// inNormalRange reports whether v is a positive normal finite float64.
+func inNormalRange(v float64) bool { return v >= minNormal && !math.IsInf(v, 0) }
 
 // Below returns the largest standard value strictly below v; a v that is
 // itself a standard value (within a relative 1e-9) gives the next value down.

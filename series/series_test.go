@@ -194,9 +194,29 @@ func TestBadInput(t *testing.T) {
 	if x := E24.Above(math.MaxFloat64); !math.IsNaN(x) {
 		t.Errorf("Above(MaxFloat64) = %g, want NaN", x)
 	}
-	// 1.797e308 is nearer 1.8e308 (beyond float64) than 1.6e308.
-	if x, err := E24.NearestValue(math.MaxFloat64); !errors.Is(err, ErrRange) {
-		t.Errorf("NearestValue(MaxFloat64) = %g, %v, want ErrRange", x, err)
+	// 1.797e308 is nearer 1.8e308 (beyond float64) than 1.6e308: the
+	// nearest value float64 holds is 1.6e308 (it was NaN).
+	if x, err := E24.NearestValue(math.MaxFloat64); x != 1.6e308 || err != nil {
+		t.Errorf("NearestValue(MaxFloat64) = %g, %v, want 1.6e308", x, err)
+	}
+	// The same at every series: the largest standard value below
+	// MaxFloat64 when the next one up overflows.
+	for _, c := range []struct {
+		s    Series
+		want float64
+	}{{E3, 1e308}, {E6, 1.5e308}, {E12, 1.5e308}, {E24, 1.6e308}, {E48, 1.78e308}, {E96, 1.78e308}, {E192, 1.78e308}} {
+		if x := c.s.Nearest(math.MaxFloat64); x != c.want {
+			t.Errorf("%v.Nearest(MaxFloat64) = %g, want %g", c.s, x, c.want)
+		}
+	}
+	// E3 at 1.6e308: 2.2e308 is nearer by ratio but overflows.
+	if x := E3.Nearest(1.6e308); x != 1e308 {
+		t.Errorf("E3.Nearest(1.6e308) = %g, want 1e308", x)
+	}
+	// The low end: 2.2e-308 (E24) is below the smallest normal float64
+	// 2.225e-308, so 2.4e-308 is the nearest value held.
+	if x, err := E24.NearestValue(minNormal); x != 2.4e-308 || err != nil {
+		t.Errorf("NearestValue(smallest normal) = %g, %v, want 2.4e-308", x, err)
 	}
 	if x := E24.Nearest(1.65e308); x != 1.6e308 {
 		t.Errorf("Nearest(1.65e308) = %g, want 1.6e308", x)
@@ -339,7 +359,10 @@ func FuzzNearest(f *testing.F) {
 			}
 			return
 		}
-		if !isMember(s, x) || max(x/v, v/x) > halfStep(s)*(1+1e-12) {
+		// Within the half-step, except at an end of the float64 range
+		// where the value past x on the far side is not representable.
+		atEnd := (x < v && math.IsNaN(s.Above(x))) || (x > v && math.IsNaN(s.Below(x)))
+		if !isMember(s, x) || (max(x/v, v/x) > halfStep(s)*(1+1e-12) && !atEnd) {
 			t.Fatalf("%v.Nearest(%g) = %g", s, v, x)
 		}
 		if n, err := s.Neighbours(v); err == nil && !(n.Below < v && v < n.Above) {

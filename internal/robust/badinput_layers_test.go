@@ -428,7 +428,9 @@ func seriesBadInputs(t *testing.T) []badInput {
 	var none series.Series
 	rows = append(rows,
 		badInput{"NearestValue subnormal", errs(series.ErrRange), "below the normal", func() error { _, err := series.E24.NearestValue(1e-310); return err }},
-		badInput{"NearestValue beyond float64", errs(series.ErrRange), "beyond float64", func() error { _, err := series.E24.NearestValue(math.MaxFloat64); return err }},
+		// NearestValue(MaxFloat64) is 1.6e308 (the nearest value float64
+		// holds); the neighbour above it is still beyond float64.
+		badInput{"Neighbours beyond float64", errs(series.ErrRange), "beyond float64", func() error { _, err := series.E24.Neighbours(math.MaxFloat64); return err }},
 		badInput{"NearestValue of the zero Series", errs(series.ErrSeries), "zero Series", func() error { _, err := none.NearestValue(1); return err }},
 		badInput{"Neighbours of the zero Series", errs(series.ErrSeries), "zero Series", func() error { _, err := none.Neighbours(1); return err }},
 		badInput{"Values of the zero Series", errs(series.ErrSeries), "zero Series", func() error { _, err := none.Values(1, 10); return err }},
