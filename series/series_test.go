@@ -155,6 +155,24 @@ func TestNearestExamples(t *testing.T) {
 	}
 }
 
+// TestNearestEqualComponentSallenKey is the check, common
+// practice: an equal-component Sallen-Key lowpass at 100 Hz with
+// C = 100 nF needs R = 1/(2π·100 Hz·100 nF) = 15915.49 Ω, which a designer
+// builds with the E96 (1 %) resistor 15.8 kΩ (the E96 neighbours are 15.8k
+// and 16.2k; 15.8k is 0.7 % off, 16.2k 1.8 %).
+func TestNearestEqualComponentSallenKey(t *testing.T) {
+	r := 1 / (2 * math.Pi * 100 * 100e-9)
+	if math.Abs(r-15915.49) > 0.01 {
+		t.Fatalf("R = %g, want 15915.49 Ω", r)
+	}
+	if got := E96.Nearest(15915.49); got != 15800 {
+		t.Errorf("E96.Nearest(15915.49) = %g, want 15800 (common practice)", got)
+	}
+	if got := E96.Nearest(r); got != 15800 {
+		t.Errorf("E96.Nearest(%g) = %g, want 15800 (common practice)", r, got)
+	}
+}
+
 func TestBadInput(t *testing.T) {
 	for _, v := range []float64{0, -1, math.NaN(), math.Inf(1), math.Inf(-1), math.Copysign(0, -1)} {
 		if x := E24.Nearest(v); !math.IsNaN(x) {
