@@ -129,7 +129,9 @@ func (r resolved) lowpass(sel float64, n int) (Transfer, error) {
 			return Transfer{}, fmt.Errorf("filter: %v order %d has no %g dB point: %w", r.fam, n, r.rp, ErrRange)
 		}
 		return h.scale(1 / w)
-	default: // Chebyshev and families from outside: edge at 1 rad/s as given
+	case kindGeneric: // a family from outside: edge at 1 rad/s as given
+		return outsidePrototype(r.fam, n)
+	default: // Chebyshev: edge at 1 rad/s as given
 		return r.fam.Prototype(n)
 	}
 }

@@ -1,8 +1,11 @@
 package filter
 
 // A Family gives normalized lowpass prototypes, passband maximum gain 1
-// (0 dB). Prototype returns an error wrapping ErrOrder for an order outside
-// the family's supported range and ErrParam for a bad family parameter.
+// (0 dB), with every pole finite and strictly in the left half-plane
+// (MinOrder and Design reject a prototype of a family defined outside this
+// package that is not, with ErrParam). Prototype returns an error wrapping
+// ErrOrder for an order outside the family's supported range and ErrParam
+// for a bad family parameter.
 type Family interface {
 	Prototype(order int) (Transfer, error)
 	String() string

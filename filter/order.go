@@ -209,7 +209,8 @@ func (r resolved) estimate(sel float64) (n float64, ok bool) {
 // The error wraps ErrSpec for an invalid spec (see Spec.Validate), ErrParam
 // for a bad or looser family parameter (and for a Family defined outside
 // this package whose Prototype fails with an error of its own, which is
-// wrapped too), and ErrRange when the mask needs an order beyond the
+// wrapped too, or returns a pole that is not finite and strictly in the
+// left half-plane, which the message names), and ErrRange when the mask needs an order beyond the
 // family's supported range (also wrapping the prototype's ErrOrder).
 func MinOrder(f Family, s Spec) (int, error) {
 	n, _, err := minDesign(f, s)

@@ -220,8 +220,9 @@ func filterBadInputs() []badInput {
 		want          []error
 	}{
 		{"outside family failing in its own words", "Prototype(1)", outsideFamily{err: errors.New("no table")}, errs(filter.ErrParam)},
-		{"outside family with a NaN pole", "Poles[0]", outsideFamily{h: filter.Transfer{Poles: []complex128{complex(nan, 0)}, Gain: 1}}, errs(filter.ErrRange)},
-		{"outside family with an unstable pole", "order", outsideFamily{h: filter.Transfer{Poles: []complex128{1}, Gain: 1}}, errs(filter.ErrRange)},
+		{"outside family with a NaN pole", "Poles[0]", outsideFamily{h: filter.Transfer{Poles: []complex128{complex(nan, 0)}, Gain: 1}}, errs(filter.ErrParam)},
+		{"outside family with an unstable pole", "Poles[0]", outsideFamily{h: filter.Transfer{Poles: []complex128{1}, Gain: 1}}, errs(filter.ErrParam)},
+		{"outside family with a pole on the jω axis", "Poles[1]", outsideFamily{h: filter.Transfer{Poles: []complex128{-1, complex(0, 2)}, Gain: 1}}, errs(filter.ErrParam)},
 		{"outside family with no poles", "order", outsideFamily{h: filter.Transfer{Gain: 1}}, errs(filter.ErrRange)},
 		{"outside family of zero gain", "order", outsideFamily{h: filter.Transfer{Poles: []complex128{-1}}}, errs(filter.ErrRange)},
 	} {
