@@ -78,6 +78,10 @@ func (o Options) limits() (limits, error) {
 // AutoKind returns the kind Realize picks for st with Auto: second-order
 // lowpass and highpass Sallen-Key, bandpass multiple feedback, notch
 // state-variable, first order RC + follower.
+// AutoKind does not validate st: it looks only at st.Order and st.Kind, so
+// an invalid stage gets the kind these rules give (SallenKey for the zero
+// Stage or an unknown Kind); Realize and RealizeStage validate first and
+// reject such a stage with ErrStage.
 func AutoKind(st filter.Stage) Kind {
 	switch {
 	case st.Order == 1:
