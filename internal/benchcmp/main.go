@@ -193,16 +193,6 @@ func sample(f func(b *testing.B)) (ns, allocs float64) {
 	return ns, allocs
 }
 
-// bench returns the median over runs samples of ns/op and allocs/op.
-func bench(runs int, f func(b *testing.B)) (ns, allocs float64) {
-	var t, a []float64
-	for range runs {
-		x, y := sample(f)
-		t, a = append(t, x), append(a, y)
-	}
-	return median(t), median(a)
-}
-
 func median(x []float64) float64 {
 	s := slices.Clone(x)
 	slices.Sort(s)
@@ -228,6 +218,19 @@ func designPath(f filter.Family, s filter.Spec, opt filter.StageOptions) (int, [
 	return n, st, err
 }
 
+// job is one measurement: its samples are taken round-robin with every
+// other job's (see measureGo).
+type job struct {
+	f          func(b *testing.B)
+	ns, allocs []float64
+}
+
+func (j *job) median() (ns, allocs float64) { return median(j.ns), median(j.allocs) }
+
+// measureGo registers every Go measurement as a job, then takes the
+// samples in rounds, one sample of every job per round, so that a burst of
+// load from elsewhere on the machine spoils one sample of many cases (which
+// the median discards) rather than all samples of one case.
 func measureGo(runs int) (*goFigures, error) {
 	g := &goFigures{ns: map[string]float64{}, allocs: map[string]float64{},
 		mcCell: map[int]float64{}, floorCell: map[int]float64{}, prodCell: map[int]float64{}, mcMS: map[int]float64{}}
@@ -236,9 +239,20 @@ func measureGo(runs int) (*goFigures, error) {
 		failure = err
 		b.SkipNow()
 	}
-	record := func(name string, f func(b *testing.B)) {
-		g.ns[name], g.allocs[name] = bench(runs, f)
+	var jobs []*job
+	add := func(f func(b *testing.B)) *job {
+		j := &job{f: f}
+		jobs = append(jobs, j)
+		return j
 	}
+	named := map[string]*job{}
+	record := func(name string, f func(b *testing.B)) { named[name] = add(f) }
+	type sized struct {
+		row  *scaleRow
+		size int
+		j    *job
+	}
+	var sizedJobs []sized
 
 	// Design path.
 	designs := []struct {
@@ -286,7 +300,7 @@ func measureGo(runs int) (*goFigures, error) {
 		return nil, err
 	}
 	g.swept = h
-	sweepRow := scaleRow{what: "SweepInto, 6th-order elliptic", unit: "point", per: func(n int) float64 { return float64(n) }}
+	sweepRow := &scaleRow{what: "SweepInto, 6th-order elliptic", unit: "point", per: func(n int) float64 { return float64(n) }}
 	for _, n := range []int{100, 1000, 10000} {
 		hz := floats.LogSpan(make([]float64, n), 1e3, 1e5)
 		dst := make([]response.Point, n)
@@ -298,8 +312,7 @@ func measureGo(runs int) (*goFigures, error) {
 				response.SweepInto(dst, sys, hz)
 			}
 		})
-		sweepRow.sizes = append(sweepRow.sizes, n)
-		sweepRow.ns = append(sweepRow.ns, g.ns[name])
+		sizedJobs = append(sizedJobs, sized{sweepRow, n, named[name]})
 		if n == 1000 {
 			record("sweep/allocating/1000", func(b *testing.B) {
 				b.ReportAllocs()
@@ -310,9 +323,10 @@ func measureGo(runs int) (*goFigures, error) {
 		}
 	}
 
-	// Scaling with order: AtHz and the prototype of Butterworth orders.
-	atRow := scaleRow{what: "Transfer.AtHz, Butterworth", unit: "pole", per: func(n int) float64 { return float64(n) }}
-	protoRow := scaleRow{what: "Chebyshev.Prototype", unit: "pole", per: func(n int) float64 { return float64(n) }}
+	// Scaling with order: AtHz of Butterworth filters and the Chebyshev
+	// prototype.
+	atRow := &scaleRow{what: "Transfer.AtHz, Butterworth", unit: "pole", per: func(n int) float64 { return float64(n) }}
+	protoRow := &scaleRow{what: "Chebyshev.Prototype", unit: "pole", per: func(n int) float64 { return float64(n) }}
 	for _, n := range []int{2, 4, 8, 16, 32} {
 		bw, err := filter.Butterworth{}.Prototype(n)
 		if err != nil {
@@ -323,28 +337,25 @@ func measureGo(runs int) (*goFigures, error) {
 			return nil, err
 		}
 		var sink complex128
-		ns, _ := bench(runs, func(b *testing.B) {
+		sizedJobs = append(sizedJobs, sized{atRow, n, add(func(b *testing.B) {
 			f := 1234.5
 			for b.Loop() {
 				sink += bw.AtHz(f)
 			}
-		})
-		_ = sink
-		atRow.sizes, atRow.ns = append(atRow.sizes, n), append(atRow.ns, ns)
-		ns, _ = bench(runs, func(b *testing.B) {
+		})})
+		sizedJobs = append(sizedJobs, sized{protoRow, n, add(func(b *testing.B) {
 			for b.Loop() {
 				if _, err := (filter.Chebyshev{RippleDB: 1}).Prototype(n); err != nil {
 					fail(b, err)
 				}
 			}
-		})
-		protoRow.sizes, protoRow.ns = append(protoRow.sizes, n), append(protoRow.ns, ns)
+		})})
 	}
 
 	// Scaling with order: Stages of Chebyshev bandpass filters (2n poles)
 	// and Design of Butterworth masks whose least order is n.
-	stagesRow := scaleRow{what: "Transfer.Stages, Chebyshev bandpass", unit: "pole", per: func(n int) float64 { return float64(n) }}
-	designRow := scaleRow{what: "Design, Butterworth lowpass", unit: "pole", per: func(n int) float64 { return float64(n) }}
+	stagesRow := &scaleRow{what: "Transfer.Stages, Chebyshev bandpass", unit: "pole", per: func(n int) float64 { return float64(n) }}
+	designRow := &scaleRow{what: "Design, Butterworth lowpass", unit: "pole", per: func(n int) float64 { return float64(n) }}
 	for _, n := range []int{2, 4, 8, 16} {
 		p, err := filter.Chebyshev{RippleDB: 1}.Prototype(n)
 		if err != nil {
@@ -354,33 +365,28 @@ func measureGo(runs int) (*goFigures, error) {
 		if err != nil {
 			return nil, err
 		}
-		ns, _ := bench(runs, func(b *testing.B) {
+		sizedJobs = append(sizedJobs, sized{stagesRow, 2 * n, add(func(b *testing.B) {
 			for b.Loop() {
 				if _, err := bp.Stages(); err != nil {
 					fail(b, err)
 				}
 			}
-		})
-		stagesRow.sizes, stagesRow.ns = append(stagesRow.sizes, 2*n), append(stagesRow.ns, ns)
+		})})
 		// A mask whose Butterworth estimate is n − 1/2 (1 dB to 1 kHz,
 		// 60 dB from the edge that gives it).
 		d := math.Expm1(6*math.Ln10) / math.Expm1(0.1*math.Ln10)
 		mask := filter.Spec{Band: filter.Lowpass, PassHz: [2]float64{1e3},
 			StopHz: [2]float64{1e3 * math.Pow(d, 1/(2*(float64(n)-0.5)))}, RippleDB: 1, AttenDB: 60}
-		ns, _ = bench(runs, func(b *testing.B) {
+		sizedJobs = append(sizedJobs, sized{designRow, n, add(func(b *testing.B) {
 			for b.Loop() {
 				if _, err := filter.Design(filter.Butterworth{}, mask); err != nil {
 					fail(b, err)
 				}
 			}
-		})
-		designRow.sizes, designRow.ns = append(designRow.sizes, n), append(designRow.ns, ns)
-	}
-	if failure != nil {
-		return nil, failure
+		})})
 	}
 
-	// Monte Carlo and its floor.
+	// Monte Carlo and its floors.
 	chain, err := bandpassChain()
 	if err != nil {
 		return nil, err
@@ -390,8 +396,13 @@ func measureGo(runs int) (*goFigures, error) {
 		return nil, err
 	}
 	stages := len(chain.Circuits)
-	mcRow := scaleRow{what: fmt.Sprintf("MonteCarlo, %d trials × %d stages", mcTrials, stages), unit: "cell",
+	mcRow := &scaleRow{what: fmt.Sprintf("MonteCarlo, %d trials × %d stages", mcTrials, stages), unit: "cell",
 		per: func(nf int) float64 { return float64(mcTrials * nf * stages) }}
+	type mcJobs struct {
+		nf               int
+		floor, prod, ana *job
+	}
+	var mcs []mcJobs
 	for _, nf := range []int{50, mcFreqs, 800} {
 		hz := floats.LogSpan(make([]float64, nf), 10e3, 160e3)
 		w2 := make([]float64, nf)
@@ -399,46 +410,58 @@ func measureGo(runs int) (*goFigures, error) {
 			w := 2 * math.Pi * f
 			w2[j] = w * w
 		}
-		cells := float64(mcTrials * nf * stages)
-		var floorNs, prodNs, mcNs []float64
 		a := series.Analysis{Trials: mcTrials, Seed: 7, Hz: hz, Spec: &bandpassMask,
 			Tolerances: series.Tolerances{Resistor: 0.01, Capacitor: 0.05}}
-		// Alternate the floors and the analysis so that all see the same
-		// machine.
-		for range runs {
-			ns, _ := sample(func(b *testing.B) {
-				for b.Loop() {
-					floorPower(coef, stages, w2, runtime.GOMAXPROCS(0))
+		m := mcJobs{nf: nf}
+		m.floor = add(func(b *testing.B) {
+			for b.Loop() {
+				floorPower(coef, stages, w2, runtime.GOMAXPROCS(0))
+			}
+		})
+		m.prod = add(func(b *testing.B) {
+			for b.Loop() {
+				floorProducts(coef, stages, w2, runtime.GOMAXPROCS(0))
+			}
+		})
+		m.ana = add(func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := a.MonteCarlo(chain); err != nil {
+					fail(b, err)
 				}
-			})
-			floorNs = append(floorNs, ns)
-			ns, _ = sample(func(b *testing.B) {
-				for b.Loop() {
-					floorProducts(coef, stages, w2, runtime.GOMAXPROCS(0))
-				}
-			})
-			prodNs = append(prodNs, ns)
-			ns, _ = sample(func(b *testing.B) {
-				b.ReportAllocs()
-				for b.Loop() {
-					if _, err := a.MonteCarlo(chain); err != nil {
-						fail(b, err)
-					}
-				}
-			})
+			}
+		})
+		mcs = append(mcs, m)
+	}
+
+	for r := range runs {
+		fmt.Fprintf(os.Stderr, "benchcmp: Go round %d of %d (%d cases)\n", r+1, runs, len(jobs))
+		for _, j := range jobs {
+			x, y := sample(j.f)
 			if failure != nil {
 				return nil, failure
 			}
-			mcNs = append(mcNs, ns)
+			j.ns, j.allocs = append(j.ns, x), append(j.allocs, y)
 		}
-		g.floorCell[nf] = median(floorNs) / cells
-		g.prodCell[nf] = median(prodNs) / cells
-		g.mcCell[nf] = median(mcNs) / cells
-		g.mcMS[nf] = median(mcNs) / 1e6
-		mcRow.sizes, mcRow.ns = append(mcRow.sizes, nf), append(mcRow.ns, median(mcNs))
 	}
-	g.scale = []scaleRow{protoRow, designRow, stagesRow, atRow, sweepRow, mcRow}
-	return g, failure
+
+	for name, j := range named {
+		g.ns[name], g.allocs[name] = j.median()
+	}
+	for _, sj := range sizedJobs {
+		ns, _ := sj.j.median()
+		sj.row.sizes, sj.row.ns = append(sj.row.sizes, sj.size), append(sj.row.ns, ns)
+	}
+	for _, m := range mcs {
+		cells := float64(mcTrials * m.nf * stages)
+		fl, _ := m.floor.median()
+		pr, _ := m.prod.median()
+		an, _ := m.ana.median()
+		g.floorCell[m.nf], g.prodCell[m.nf], g.mcCell[m.nf], g.mcMS[m.nf] = fl/cells, pr/cells, an/cells, an/1e6
+		mcRow.sizes, mcRow.ns = append(mcRow.sizes, m.nf), append(mcRow.ns, an)
+	}
+	g.scale = []scaleRow{*protoRow, *designRow, *stagesRow, *atRow, *sweepRow, *mcRow}
+	return g, nil
 }
 
 // bandpassChain realizes the Chebyshev bandpass design: four
