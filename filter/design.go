@@ -155,10 +155,58 @@ func (r resolved) design(s Spec, pl bandPlan, n int) (Transfer, error) {
 }
 
 // meetGrid is the number of log-spaced points per band segment at which
-// meets evaluates a design (edges included).
+// meets reports whether the design h of the plan r meets the mask s. For
+// the families of this package the shape of the response between the edges
+// is known, so the mask's own edges decide (meetsAtEdges); a family from
+// outside the package is checked on a dense grid (meetsOnGrid).
+func (r resolved) meets(h Transfer, s Spec) bool {
+	if r.kind == kindGeneric {
+		return meetsOnGrid(h, s, r.rp, r.as)
+	}
+	return meetsAtEdges(h, s, r.rp, r.as)
+}
+
+// meetsAtEdges reports whether h meets the mask s from its magnitude at the
+// mask's edges alone, which decides for the prototypes of this package
+// placed by the frequency transforms:
+//
+//   - The lowpass-to-band transforms map frequency monotonically onto the
+//     prototype's (each side of the centre, for bandpass and bandstop), and
+//     the prototype's |H(jΩ)| is even in Ω, so each passband and stopband
+//     segment of the mask is the image of an interval [0, Ωp] or [Ωs, ∞)
+//     with Ωp and Ωs the images of the mask's edges.
+//   - On [0, Ωp] the prototype's attenuation is at most its value at Ωp
+//     (Butterworth, inverse Chebyshev and Bessel are monotone there) or at
+//     most the family's ripple where it ripples (Chebyshev, elliptic: the
+//     ripple designed for is r.rp, no looser than the spec's), so the pass
+//     edges decide.
+//   - On [Ωs, ∞) the attenuation is at least its value at Ωs (Butterworth,
+//     Chebyshev and Bessel rise monotonically), or, where the stopband is
+//     equiripple (inverse Chebyshev, elliptic), at least the smaller of its
+//     value at Ωs (in the transition band) and the lobe level, which is the
+//     attenuation designed for, r.as, no looser than the spec's.
+//
+// The dense grid of meetsOnGrid is kept for outside families and, in the
+// tests, as the check of this rule.
+func meetsAtEdges(h Transfer, s Spec, rp, as float64) bool {
+	passMin := math.Pow(10, -(rp+MaskToleranceDB)/20) // least |H| in the passband
+	stopMax := math.Pow(10, -(as-MaskToleranceDB)/20) // greatest |H| in the stopband
+	pass := func(f float64) bool { return magAt(h, 2*math.Pi*f) >= passMin }
+	stop := func(f float64) bool { return magAt(h, 2*math.Pi*f) <= stopMax }
+	p, t := s.PassHz, s.StopHz
+	switch s.Band {
+	case Lowpass, Highpass:
+		return pass(p[0]) && stop(t[0])
+	default:
+		return pass(p[0]) && pass(p[1]) && stop(t[0]) && stop(t[1])
+	}
+}
+
+// meetGrid is the number of points of each band segment of meetsOnGrid
+// (edges included).
 const meetGrid = 97
 
-// meets reports whether h meets the mask s with ripple rp and attenuation
+// meetsOnGrid reports whether h meets the mask s with ripple rp and attenuation
 // as (the spec's values, or the family's stricter ones), to within
 // MaskToleranceDB: the band edges exactly, DC and infinity, and a log grid
 // over each band segment (three decades beyond the outer edges).
@@ -168,7 +216,7 @@ const meetGrid = 97
 // for the stopband), |H| from real arithmetic (magAt): no logarithm, no
 // complex division per point. The verdicts are those of comparing
 // attenuations in dB, up to rounding far below MaskToleranceDB.
-func meets(h Transfer, s Spec, rp, as float64) bool {
+func meetsOnGrid(h Transfer, s Spec, rp, as float64) bool {
 	passMax := rp + MaskToleranceDB
 	stopMin := as - MaskToleranceDB
 	passMin := math.Pow(10, -passMax/20) // least |H| in the passband

@@ -395,7 +395,7 @@ func FuzzDesign(f *testing.F) {
 			}
 		}
 		r, _ := resolve(fy, s)
-		if !meets(h, s, r.rp, r.as) {
+		if !meetsOnGrid(h, s, r.rp, r.as) {
 			t.Fatalf("%v %+v: design misses the mask", fy, s)
 		}
 	})

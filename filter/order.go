@@ -284,7 +284,7 @@ func minDesign(f Family, s Spec) (int, Transfer, error) {
 			}
 			return Transfer{}, false, err
 		}
-		return h, meets(h, s, r.rp, r.as), nil
+		return h, r.meets(h, s), nil
 	}
 	est, closed := r.estimate(pl.sel)
 	if !closed {
