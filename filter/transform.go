@@ -337,17 +337,10 @@ func bandRoots(rs []complex128, b func(complex128) complex128, c complex128) []c
 // positive and finite, and ErrRange when the new gain leaves the normal
 // float64 range, or h holds a non-finite value.
 func (h Transfer) ToBandpass(centerHz, widthHz float64) (Transfer, error) {
-	if err := checkFreq("centerHz", centerHz); err != nil {
+	w0, bw, err := h.bandArgs(centerHz, widthHz)
+	if err != nil {
 		return Transfer{}, err
 	}
-	if err := checkFreq("widthHz", widthHz); err != nil {
-		return Transfer{}, err
-	}
-	if err := h.checkRoots(); err != nil {
-		return Transfer{}, err
-	}
-	w0 := 2 * math.Pi * centerHz
-	bw := 2 * math.Pi * widthHz
 	c := complex(w0*w0, 0)
 	if math.IsInf(w0*w0, 0) {
 		return Transfer{}, fmt.Errorf("filter: centerHz %g Hz too high for float64: %w", centerHz, ErrRange)
@@ -367,7 +360,6 @@ func (h Transfer) ToBandpass(centerHz, widthHz float64) (Transfer, error) {
 		poles = append(poles, 0)
 	}
 	out := Transfer{Zeros: zeros, Poles: poles}
-	var err error
 	if out.Gain, err = g.real("bandpass gain"); err != nil {
 		return Transfer{}, err
 	}
@@ -395,17 +387,10 @@ func (h Transfer) ToBandpass(centerHz, widthHz float64) (Transfer, error) {
 // positive and finite, and ErrRange when the new gain leaves the normal
 // float64 range, or h holds a non-finite value.
 func (h Transfer) ToBandstop(centerHz, widthHz float64) (Transfer, error) {
-	if err := checkFreq("centerHz", centerHz); err != nil {
+	w0, bw, err := h.bandArgs(centerHz, widthHz)
+	if err != nil {
 		return Transfer{}, err
 	}
-	if err := checkFreq("widthHz", widthHz); err != nil {
-		return Transfer{}, err
-	}
-	if err := h.checkRoots(); err != nil {
-		return Transfer{}, err
-	}
-	w0 := 2 * math.Pi * centerHz
-	bw := 2 * math.Pi * widthHz
 	if math.IsInf(w0*w0, 0) {
 		return Transfer{}, fmt.Errorf("filter: centerHz %g Hz too high for float64: %w", centerHz, ErrRange)
 	}
@@ -450,7 +435,6 @@ func (h Transfer) ToBandstop(centerHz, widthHz float64) (Transfer, error) {
 		poles = append(poles, jw, -jw)
 	}
 	out := Transfer{Zeros: zeros, Poles: poles}
-	var err error
 	if out.Gain, err = g.real("bandstop gain"); err != nil {
 		return Transfer{}, err
 	}
@@ -474,4 +458,19 @@ func (h Transfer) compact() Transfer {
 		h.Poles = nil
 	}
 	return h
+}
+
+// bandArgs checks the arguments of the band transforms and h's roots, and
+// returns the centre and width in rad/s.
+func (h Transfer) bandArgs(centerHz, widthHz float64) (w0, bw float64, err error) {
+	if err := checkFreq("centerHz", centerHz); err != nil {
+		return 0, 0, err
+	}
+	if err := checkFreq("widthHz", widthHz); err != nil {
+		return 0, 0, err
+	}
+	if err := h.checkRoots(); err != nil {
+		return 0, 0, err
+	}
+	return 2 * math.Pi * centerHz, 2 * math.Pi * widthHz, nil
 }
