@@ -355,8 +355,8 @@ func distributeGain(stages []Stage, h Transfer, plan GainPlan) error {
 // the poles and zeros of h is searched for its peak: 0, a log grid of 24
 // points a decade from a hundredth of the lowest to a hundred times the
 // highest pole or zero frequency, points at and around every resonance
-// (its pole frequency, the imaginary part ± fractions of the real part, the
-// resonance peak of a pole pair of Q above 1/√2), and a point far above
+// (its pole frequency, the imaginary part plus multiples of a quarter of the
+// real part up to three times it each side, the resonance peak of a pole pair of Q above 1/√2), and a point far above
 // (the limit at infinity). Near-duplicates are dropped (a pole point equal
 // to a grid point up to rounding would make a bracket too narrow to hold
 // the maximum beside it).
@@ -369,8 +369,12 @@ func peakGrid(h Transfer) []float64 {
 		re, im := math.Abs(real(p)), math.Abs(imag(p))
 		pts = append(pts, m)
 		if im > 0 {
-			for _, c := range [...]float64{-2, -1, -0.5, -0.25, 0, 0.25, 0.5, 1, 2} {
-				if w := im + c*re; w > 0 {
+			// Quarter half-bandwidth steps over three half-bandwidths each
+			// side: a partial cascade's peak between two resonances, beside
+			// a dip, is then bracketed by grid points (coarser steps let
+			// such a peak, 1e-5 above its neighbours, slip between them).
+			for c := -12; c <= 12; c++ {
+				if w := im + float64(c)/4*re; w > 0 {
 					pts = append(pts, w)
 				}
 			}

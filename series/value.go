@@ -253,7 +253,8 @@ var engPrefix = map[int]string{-15: "f", -12: "p", -9: "n", -6: "µ", -3: "m", 0
 // Special cases are: 0 gives "0" (with the unit), NaN gives "NaN", ±Inf
 // give "+Inf" and "-Inf"; beyond the prefixes' range (|v| rounded below
 // 1e-15 or from 1e15 up, where the number would leave [1, 1000)) the value
-// is written with strconv's 'g' format at f's significant figures and the
+// is written in exponent notation, rounded to f's significant figures (and no
+// more digits than that needs), and the
 // unit after a space: Value(1e-30, "Ω") is "1e-30 Ω", Value(2.2e15, "")
 // is "2.2e+15". ParseValue reads these back too.
 func (f Format) Value(v float64, unit string) string {
@@ -269,7 +270,7 @@ func (f Format) Value(v float64, unit string) string {
 	}
 	digits, exp := decimal(v, f.digits())
 	if exp < -15 || exp >= 15 {
-		return strconv.FormatFloat(v, 'g', f.digits(), 64) + sep + unit
+		return expForm(v, f.digits()) + sep + unit
 	}
 	g := int(math.Floor(float64(exp)/3)) * 3
 	intPart, frac := place(digits, exp-g+1)
@@ -327,7 +328,7 @@ func (f Format) Code(v float64) string {
 		g = int(math.Floor(float64(exp)/3)) * 3
 	}
 	if g < -15 || g > 12 {
-		return strconv.FormatFloat(v, 'g', f.digits(), 64)
+		return expForm(v, f.digits())
 	}
 	intPart, frac := place(digits, exp-g+1)
 	if frac == "" && len(intPart) == 1 {
@@ -350,3 +351,15 @@ func (f Format) Code(v float64) string {
 // FormatCode formats v in the IEC 60062 letter-and-digit code with 3
 // significant figures: Format{}.Code(v).
 func FormatCode(v float64) string { return Format{}.Code(v) }
+
+// expForm writes v rounded to digits significant figures in exponent
+// notation, trailing zeros of the mantissa dropped ("1e+15", not
+// "1000000000000000" nor "1.000e+15").
+func expForm(v float64, digits int) string {
+	t := strconv.FormatFloat(v, 'e', digits-1, 64)
+	mant, exp, _ := strings.Cut(t, "e")
+	if strings.Contains(mant, ".") {
+		mant = strings.TrimRight(strings.TrimRight(mant, "0"), ".")
+	}
+	return mant + "e" + exp
+}

@@ -187,6 +187,11 @@ func TestRoundTripWide(t *testing.T) {
 		}
 		f := Format{Digits: rapid.IntRange(1, 17).Draw(t, "digits"), ASCII: rapid.Bool().Draw(t, "ascii")}
 		want := rounded(v, f.digits())
+		if math.IsInf(want, 0) {
+			// 1.78e308 to one figure is 2e308: the printed value is beyond
+			// float64, and ParseValue rightly refuses it (ErrRange).
+			t.Skip("rounding leaves float64")
+		}
 		unit := rapid.SampledFrom([]string{"", "Ω", "F", "Hz"}).Draw(t, "unit")
 		s := f.Value(v, unit)
 		got, err := ParseValue(s)
@@ -218,6 +223,11 @@ func TestRoundTrip(t *testing.T) {
 		}
 		f := Format{Digits: rapid.IntRange(1, 17).Draw(t, "digits"), ASCII: rapid.Bool().Draw(t, "ascii")}
 		want := rounded(v, f.digits())
+		if math.IsInf(want, 0) {
+			// 1.78e308 to one figure is 2e308: the printed value is beyond
+			// float64, and ParseValue rightly refuses it (ErrRange).
+			t.Skip("rounding leaves float64")
+		}
 		unit := rapid.SampledFrom([]string{"", "Ω", "F", "Hz"}).Draw(t, "unit")
 		for _, s := range []string{f.Value(v, unit), f.Code(v)} {
 			got, err := ParseValue(s)
