@@ -73,9 +73,24 @@ func (c Circuit) at(a mna.Amp, f float64) complex128 {
 // not. A negative Stage.Gain is realized with |Gain|, so it flips the
 // answer: a Sallen-Key stage of gain −2 is Inverting (its output is +2·H,
 // the stage asks for −2·H). False for a Circuit that fits no template.
+//
+// The answer is read off the circuit itself: the sign of AtHz against the
+// stage's transfer function at a frequency near F0Hz where the stage is not
+// zero (the two agree up to that sign to about 1e-9), so it holds whatever
+// way a kind realizes a negative gain.
 func (c Circuit) Inverting() bool {
-	d, err := c.design()
-	return err == nil && d.inverting != (c.Stage.Gain < 0)
+	if _, err := c.design(); err != nil {
+		return false
+	}
+	h := c.Stage.Transfer()
+	for _, k := range [...]float64{1, 0.7, 1.3, 0.5, 2} {
+		f := k * c.Stage.F0Hz
+		want := h.AtHz(f)
+		if cmplx.Abs(want) > 1e-6*math.Abs(c.Stage.Gain) {
+			return real(c.AtHz(f)/want) < 0
+		}
+	}
+	return false
 }
 
 // OpAmps returns the number of op-amps of the circuit (0 for a Circuit that

@@ -14,7 +14,7 @@ func TestInvertingIsTheSign(t *testing.T) {
 	var all []Circuit
 	for _, k := range allKinds {
 		for _, sk := range support[k] {
-			for _, g := range []float64{1.5, -1.5} {
+			for _, g := range []float64{1.5, -1.5, 0.4, -0.4, -56.7} {
 				st := filter.Stage{Kind: sk.kind, Order: sk.order, F0Hz: 1e3, Gain: g}
 				if sk.order == 2 {
 					st.Q = 1.2
