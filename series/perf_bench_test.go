@@ -2,9 +2,9 @@ package series
 
 import (
 	"fmt"
+	"github.com/rolloff/rolloff/internal/mcfloor"
 	"math"
 	"runtime"
-	"sync"
 	"testing"
 
 	"github.com/rolloff/rolloff/filter"
@@ -40,117 +40,12 @@ func perfChain(tb testing.TB) topology.Chain {
 // perfHz is n log-spaced analysis frequencies from 10 kHz to 160 kHz.
 func perfHz(n int) []float64 { return floats.LogSpan(make([]float64, n), 10e3, 160e3) }
 
-// floorPower is the arithmetic floor of a gain-only Monte Carlo: for every
-// trial and frequency the product over stages of
-// |H(jω)|² = ((n0 − n2ω²)² + (n1ω)²) / ((d0 − d2ω²)² + (d1ω)²) from
-// coefficients computed beforehand (coef: trials × stages), on workers
-// goroutines, each with one row of powers that it reuses, as the Monte
-// Carlo does; it returns the number of trials whose power at every
-// frequency lies in [lo, hi] (the yield count the Monte Carlo makes too).
-// It is what a Monte Carlo would cost if drawing the parts and analysing
-// the circuits were free.
-func floorPower(coef []bq, stages int, w2, lo, hi []float64, workers int) int {
-	trials := len(coef) / stages
-	nf := len(w2)
-	counts := make([]int, workers)
-	var wg sync.WaitGroup
-	for k := range workers {
-		a, b := k*trials/workers, (k+1)*trials/workers
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			row := make([]float64, nf)
-			n := 0
-			for i := a; i < b; i++ {
-				cs := coef[i*stages : (i+1)*stages]
-				for j, x := range w2 {
-					p := 1.0
-					for _, c := range cs {
-						nr := c.n0 - c.n2*x
-						dr := c.d0 - c.d2*x
-						p *= (nr*nr + c.n1*c.n1*x) / (dr*dr + c.d1*c.d1*x)
-					}
-					row[j] = p
-				}
-				pass := true
-				for j, x := range row {
-					if !(x >= lo[j] && x <= hi[j]) {
-						pass = false
-						break
-					}
-				}
-				if pass {
-					n++
-				}
-			}
-			counts[k] = n
-		}()
-	}
-	wg.Wait()
-	total := 0
-	for _, n := range counts {
-		total += n
-	}
-	return total
-}
-
-// floorProducts is the division-free form of floorPower, the tightest
-// plain loop for the same job: per trial and frequency the products of the
-// stages' numerator and denominator powers, and the check lo·den <= num <=
-// hi·den (how the Monte Carlo evaluates since it stopped dividing).
-func floorProducts(coef []bq, stages int, w2, lo, hi []float64, workers int) int {
-	trials := len(coef) / stages
-	nf := len(w2)
-	counts := make([]int, workers)
-	var wg sync.WaitGroup
-	for k := range workers {
-		a, b := k*trials/workers, (k+1)*trials/workers
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			num, den := make([]float64, nf), make([]float64, nf)
-			n := 0
-			for i := a; i < b; i++ {
-				for j := range num {
-					num[j], den[j] = 1, 1
-				}
-				for _, c := range coef[i*stages : (i+1)*stages] {
-					n1s, d1s := c.n1*c.n1, c.d1*c.d1
-					for j, x := range w2 {
-						nr := c.n0 - c.n2*x
-						dr := c.d0 - c.d2*x
-						num[j] *= nr*nr + n1s*x
-						den[j] *= dr*dr + d1s*x
-					}
-				}
-				pass := true
-				for j, x := range num {
-					if !(x >= lo[j]*den[j] && x <= hi[j]*den[j]) {
-						pass = false
-						break
-					}
-				}
-				if pass {
-					n++
-				}
-			}
-			counts[k] = n
-		}()
-	}
-	wg.Wait()
-	total := 0
-	for _, n := range counts {
-		total += n
-	}
-	return total
-}
-
 // perfCoefficients draws trials sets of part values for every stage of
 // chain (uniform within the customary tolerances: 1 % resistors, 5 %
 // capacitors) and returns their coefficients, trials × stages.
-func perfCoefficients(tb testing.TB, chain topology.Chain, trials int) []bq {
+func perfCoefficients(tb testing.TB, chain topology.Chain, trials int) []mcfloor.Biquad {
 	tb.Helper()
-	var coef []bq
+	var coef []mcfloor.Biquad
 	st := newStream()
 	for i := range trials {
 		st.reset(1, uint64(i))
@@ -171,7 +66,7 @@ func perfCoefficients(tb testing.TB, chain topology.Chain, trials int) []bq {
 			if err != nil {
 				tb.Fatal(err)
 			}
-			coef = append(coef, b)
+			coef = append(coef, mcfloor.Biquad{N0: b.n0, N1: b.n1, N2: b.n2, D0: b.d0, D1: b.d1, D2: b.d2})
 		}
 	}
 	return coef
@@ -180,8 +75,8 @@ func perfCoefficients(tb testing.TB, chain topology.Chain, trials int) []bq {
 // BenchmarkPerfMonteCarlo measures Analysis.MonteCarlo (gain only, with
 // the yield against the chain's mask) of the 4-stage chain on all cores,
 // at 10,000 trials and 50, 200 and 800 frequencies, beside the arithmetic
-// floors of the same size (floorPower, one division per cell as the
-// target states it, and floorProducts, division-free). All report ns per
+// floors of the same size (mcfloor.Power, one division per cell as the
+// target states it, and mcfloor.Products, division-free). All report ns per
 // (trial × frequency × stage); the Monte Carlo's also its ratio to the
 // first floor measured just before it.
 func BenchmarkPerfMonteCarlo(b *testing.B) {
@@ -205,7 +100,7 @@ func BenchmarkPerfMonteCarlo(b *testing.B) {
 		b.Run(fmt.Sprintf("floor/%d", nf), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				if floorPower(coef, ns, w2, lo, hi, runtime.GOMAXPROCS(0)) != trials {
+				if mcfloor.Power(coef, ns, w2, lo, hi, runtime.GOMAXPROCS(0)) != trials {
 					b.Fatal("floor: a trial outside [0, +Inf)")
 				}
 			}
@@ -215,7 +110,7 @@ func BenchmarkPerfMonteCarlo(b *testing.B) {
 		b.Run(fmt.Sprintf("floor-products/%d", nf), func(b *testing.B) {
 			b.ReportAllocs()
 			for b.Loop() {
-				if floorProducts(coef, ns, w2, lo, hi, runtime.GOMAXPROCS(0)) != trials {
+				if mcfloor.Products(coef, ns, w2, lo, hi, runtime.GOMAXPROCS(0)) != trials {
 					b.Fatal("floor: a trial outside [0, +Inf)")
 				}
 			}

@@ -21,6 +21,7 @@ import (
 	"encoding/json"
 	"flag"
 	"fmt"
+	"github.com/rolloff/rolloff/internal/mcfloor"
 	"math"
 	"math/cmplx"
 	"math/rand/v2"
@@ -412,15 +413,21 @@ func measureGo(runs int) (*goFigures, error) {
 		}
 		a := series.Analysis{Trials: mcTrials, Seed: 7, Hz: hz, Spec: &bandpassMask,
 			Tolerances: series.Tolerances{Resistor: 0.01, Capacitor: 0.05}}
+		// The floors count the trials whose power is positive everywhere
+		// (the analysis checks its mask per trial too).
+		lo, hi := make([]float64, nf), make([]float64, nf)
+		for j := range lo {
+			lo[j], hi[j] = math.SmallestNonzeroFloat64, math.Inf(1)
+		}
 		m := mcJobs{nf: nf}
 		m.floor = add(func(b *testing.B) {
 			for b.Loop() {
-				floorPower(coef, stages, w2, runtime.GOMAXPROCS(0))
+				mcfloor.Power(coef, stages, w2, lo, hi, runtime.GOMAXPROCS(0))
 			}
 		})
 		m.prod = add(func(b *testing.B) {
 			for b.Loop() {
-				floorProducts(coef, stages, w2, runtime.GOMAXPROCS(0))
+				mcfloor.Products(coef, stages, w2, lo, hi, runtime.GOMAXPROCS(0))
 			}
 		})
 		m.ana = add(func(b *testing.B) {
@@ -480,7 +487,7 @@ func bandpassChain() (topology.Chain, error) {
 
 // biquad is one stage's coefficients, H(s) = (n0 + n1·s + n2·s²) /
 // (d0 + d1·s + d2·s²).
-type biquad struct{ n0, n1, n2, d0, d1, d2 float64 }
+type biquad = mcfloor.Biquad
 
 // trialCoefficients draws trials sets of part values (uniform within 1 %
 // for resistors, 5 % for capacitors, as the analysis is given) and returns
@@ -511,117 +518,10 @@ func trialCoefficients(chain topology.Chain, trials int) ([]biquad, error) {
 			if err != nil {
 				return nil, err
 			}
-			out = append(out, biquad{b.Num[0], b.Num[1], b.Num[2], b.Den[0], b.Den[1], b.Den[2]})
+			out = append(out, biquad{N0: b.Num[0], N1: b.Num[1], N2: b.Num[2], D0: b.Den[0], D1: b.Den[1], D2: b.Den[2]})
 		}
 	}
 	return out, nil
-}
-
-// floorPower is the arithmetic floor of a gain-only Monte Carlo: for every
-// trial and frequency the product over stages of
-// |H(jω)|² = ((n0 − n2ω²)² + (n1ω)²) / ((d0 − d2ω²)² + (d1ω)²) from the
-// precomputed coefficients, on workers goroutines, each reusing one row of
-// powers as the analysis does, and counting the trials whose power is
-// positive everywhere (the analysis checks its mask per trial too). It is
-// what the analysis would cost if drawing the parts and analysing the
-// circuits were free.
-func floorPower(coef []biquad, stages int, w2 []float64, workers int) int {
-	trials := len(coef) / stages
-	nf := len(w2)
-	counts := make([]int, workers)
-	var wg sync.WaitGroup
-	for k := range workers {
-		a, b := k*trials/workers, (k+1)*trials/workers
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			row := make([]float64, nf)
-			n := 0
-			for i := a; i < b; i++ {
-				cs := coef[i*stages : (i+1)*stages]
-				for j, x := range w2 {
-					p := 1.0
-					for _, c := range cs {
-						nr := c.n0 - c.n2*x
-						dr := c.d0 - c.d2*x
-						p *= (nr*nr + c.n1*c.n1*x) / (dr*dr + c.d1*c.d1*x)
-					}
-					row[j] = p
-				}
-				pass := true
-				for _, x := range row {
-					if !(x > 0) {
-						pass = false
-						break
-					}
-				}
-				if pass {
-					n++
-				}
-			}
-			counts[k] = n
-		}()
-	}
-	wg.Wait()
-	total := 0
-	for _, n := range counts {
-		total += n
-	}
-	return total
-}
-
-// floorProducts is the tightest plain loop for the same job: per trial
-// and frequency the products of the stages' numerator and denominator
-// powers, (n0 − n2ω²)² + (n1ω)² and (d0 − d2ω²)² + (d1ω)², with no
-// division, and a check num > 0 and den > 0 per frequency (a mask check is
-// a comparison num ≥ lo·den without dividing). It is the floor of an
-// analysis that, like series' Monte Carlo, multiplies the two products
-// instead of the ratios.
-func floorProducts(coef []biquad, stages int, w2 []float64, workers int) int {
-	trials := len(coef) / stages
-	nf := len(w2)
-	counts := make([]int, workers)
-	var wg sync.WaitGroup
-	for k := range workers {
-		a, b := k*trials/workers, (k+1)*trials/workers
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			num, den := make([]float64, nf), make([]float64, nf)
-			n := 0
-			for i := a; i < b; i++ {
-				for j := range num {
-					num[j], den[j] = 1, 1
-				}
-				for _, c := range coef[i*stages : (i+1)*stages] {
-					n1s, d1s := c.n1*c.n1, c.d1*c.d1
-					for j, x := range w2 {
-						nr := c.n0 - c.n2*x
-						dr := c.d0 - c.d2*x
-						num[j] *= nr*nr + n1s*x
-						den[j] *= dr*dr + d1s*x
-					}
-				}
-				pass := true
-				for j, x := range num {
-					if !(x > 0 && den[j] > 0) {
-						pass = false
-						break
-					}
-				}
-				if pass {
-					n++
-				}
-			}
-			counts[k] = n
-		}()
-	}
-	wg.Wait()
-	total := 0
-	for _, n := range counts {
-		total += n
-	}
-	return total
 }
 
 // checkSciPy reports whether python exists and imports scipy.signal.
