@@ -180,17 +180,7 @@ func (h Transfer) scale(w float64) (Transfer, error) {
 	for ; d < 0; d++ {
 		g = g.div(cw)
 	}
-	var err error
-	if out.Gain, err = g.real("lowpass gain"); err != nil {
-		return Transfer{}, err
-	}
-	if err := checkMapped("poles", out.Poles, h.Poles); err != nil {
-		return Transfer{}, err
-	}
-	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
-		return Transfer{}, err
-	}
-	return out.compact(), nil
+	return finish(out, g, h, "lowpass")
 }
 
 // ToHighpass returns the highpass filter whose response at cornerHz equals
@@ -242,17 +232,7 @@ func (h Transfer) ToHighpass(cornerHz float64) (Transfer, error) {
 		poles = append(poles, 0)
 	}
 	out := Transfer{Zeros: keepPairOrder(zeros), Poles: keepPairOrder(poles)}
-	var err error
-	if out.Gain, err = g.real("highpass gain"); err != nil {
-		return Transfer{}, err
-	}
-	if err := checkMapped("poles", out.Poles, h.Poles); err != nil {
-		return Transfer{}, err
-	}
-	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
-		return Transfer{}, err
-	}
-	return out.compact(), nil
+	return finish(out, g, h, "highpass")
 }
 
 // keepPairOrder swaps the members of each adjacent exact conjugate pair of
@@ -360,16 +340,7 @@ func (h Transfer) ToBandpass(centerHz, widthHz float64) (Transfer, error) {
 		poles = append(poles, 0)
 	}
 	out := Transfer{Zeros: zeros, Poles: poles}
-	if out.Gain, err = g.real("bandpass gain"); err != nil {
-		return Transfer{}, err
-	}
-	if err := checkMapped("poles", out.Poles, h.Poles); err != nil {
-		return Transfer{}, err
-	}
-	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
-		return Transfer{}, err
-	}
-	return out.compact(), nil
+	return finish(out, g, h, "bandpass")
 }
 
 // ToBandstop returns the bandstop filter whose passband edges are where the
@@ -435,7 +406,15 @@ func (h Transfer) ToBandstop(centerHz, widthHz float64) (Transfer, error) {
 		poles = append(poles, jw, -jw)
 	}
 	out := Transfer{Zeros: zeros, Poles: poles}
-	if out.Gain, err = g.real("bandstop gain"); err != nil {
+	return finish(out, g, h, "bandstop")
+}
+
+// finish gives out its gain g (what names the transform in an error) and
+// checks that the mapped poles and zeros of the input h stayed finite and
+// the poles strictly in the left half-plane, then compacts out.
+func finish(out Transfer, g scaled, h Transfer, what string) (Transfer, error) {
+	var err error
+	if out.Gain, err = g.real(what + " gain"); err != nil {
 		return Transfer{}, err
 	}
 	if err := checkMapped("poles", out.Poles, h.Poles); err != nil {
