@@ -68,17 +68,7 @@ func PassbandRippleDB(s System, loHz, hiHz float64) (float64, error) {
 // [loHz, hiHz], in dB (minus the largest gain there), and the frequency
 // where it occurs (see GainExtremes for accuracy and errors).
 func StopbandAttenDB(s System, loHz, hiHz float64) (attenDB, atHz float64, err error) {
-	if err := checkSystem(s); err != nil {
-		return 0, 0, err
-	}
-	if err := checkBand("loHz", loHz, "hiHz", hiHz); err != nil {
-		return 0, 0, err
-	}
-	sc, err := newScan(s, loHz, hiHz)
-	if err != nil {
-		return 0, 0, err
-	}
-	hz, db, err := sc.extreme(1)
+	db, hz, err := PeakGain(s, loHz, hiHz)
 	if err != nil {
 		return 0, 0, err
 	}
