@@ -248,10 +248,16 @@ func (c Circuit) BiquadOf(values []float64) (Biquad, error) {
 // highpass, whose op-amp constraint still leaves it second order) and
 // returns the coefficients up to s², checking that higher ones vanish.
 func biquadOf(d *design, w *mna.Interpolator, v []float64, radius float64) (Biquad, error) {
-	var b Biquad
 	var num, den [mna.MaxDim + 1]float64
-	m := max(d.net.Degree(mna.Amp{})+1, 3)
-	if err := w.Coefficients(&d.net, v, mna.Amp{}, radius, num[:m], den[:m]); err != nil {
+	m := d.ncoef
+	err := w.Coefficients(&d.net, v, mna.Amp{}, radius, num[:m], den[:m])
+	return biquadFrom(err, &num, &den, m)
+}
+
+// biquadFrom checks the m coefficients of an interpolation and returns
+// them as a Biquad.
+func biquadFrom(err error, num, den *[mna.MaxDim + 1]float64, m int) (Biquad, error) {
+	if err != nil {
 		if errors.Is(err, mna.ErrSingular) {
 			return Biquad{}, errSingular
 		}
@@ -262,6 +268,7 @@ func biquadOf(d *design, w *mna.Interpolator, v []float64, radius float64) (Biqu
 			return Biquad{}, errCoefficients
 		}
 	}
+	var b Biquad
 	copy(b.Num[:], num[:3])
 	copy(b.Den[:], den[:3])
 	return b, nil
@@ -272,15 +279,17 @@ func biquadOf(d *design, w *mna.Interpolator, v []float64, radius float64) (Biqu
 // workspace of its own. It is not safe for concurrent use: each goroutine
 // creates its own with Circuit.NewEvaluator. Its methods do not allocate.
 type Evaluator struct {
-	d      *design
-	stage  filter.Stage
-	radius float64
-	w      mna.Interpolator
+	d     *design
+	stage filter.Stage
+	w     *mna.FixedInterpolator
 }
 
 // NewEvaluator returns an Evaluator for c's template. The sampling radius
 // is fixed from c's own (nominal) values, which suits values within a few
-// tens of percent of them. Errors wrap ErrParts or the template errors.
+// tens of percent of them; so is the pivot order of the nodal elimination
+// it replays (mna.FixedInterpolator: the results are those of BiquadOf
+// with that radius, bit for bit, for any values, only faster near c's).
+// Errors wrap ErrParts or the template errors.
 func (c Circuit) NewEvaluator() (*Evaluator, error) {
 	d, err := c.design()
 	if err != nil {
@@ -291,7 +300,11 @@ func (c Circuit) NewEvaluator() (*Evaluator, error) {
 	if err != nil {
 		return nil, err
 	}
-	return &Evaluator{d: d, stage: c.Stage, radius: mna.RadiusOf(&d.net, v)}, nil
+	w, err := mna.NewFixedInterpolator(&d.net, v, mna.Amp{}, mna.RadiusOf(&d.net, v), d.ncoef)
+	if err != nil {
+		return nil, fmt.Errorf("topology: %w", err) // a template passes Check: not reached
+	}
+	return &Evaluator{d: d, stage: c.Stage, w: w}, nil
 }
 
 // Parts returns the number of part values Eval expects.
@@ -308,7 +321,10 @@ func (e *Evaluator) Eval(values []float64) (Biquad, error) {
 			return Biquad{}, errValueBad
 		}
 	}
-	return biquadOf(e.d, &e.w, values, e.radius)
+	var num, den [mna.MaxDim + 1]float64
+	m := e.d.ncoef
+	err := e.w.Coefficients(values, num[:m], den[:m])
+	return biquadFrom(err, &num, &den, m)
 }
 
 // Achieved returns the stage realized with the given values, as

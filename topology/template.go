@@ -45,6 +45,7 @@ type design struct {
 	net       mna.Netlist
 	inverting bool
 	synth     synthFunc
+	ncoef     int // coefficients the interpolation recovers: max(degree+1, 3)
 }
 
 // builder lays out a template.
@@ -109,6 +110,7 @@ func (b *builder) done(inverting bool, note string, synth synthFunc) *design {
 	if err := d.net.Check(len(d.refs)); err != nil {
 		panic("topology: template: " + err.Error()) // a bug in a template, found by every test
 	}
+	d.ncoef = max(d.net.Degree(mna.Amp{})+1, 3)
 	return d
 }
 

@@ -39,3 +39,28 @@ func BenchmarkCoefficients(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkFixedInterpolator compares Interpolator.Coefficients with the
+// replayed FixedInterpolator.Coefficients on a multiple-feedback bandpass.
+func BenchmarkFixedInterpolator(b *testing.B) {
+	vals := []float64{10e3, 2e3, 1e-8, 1e-8, 100e3}
+	r := RadiusOf(&mfbBandpass, vals)
+	num, den := make([]float64, 3), make([]float64, 3)
+	b.Run("general", func(b *testing.B) {
+		var w Interpolator
+		b.ReportAllocs()
+		for b.Loop() {
+			_ = w.Coefficients(&mfbBandpass, vals, Amp{}, r, num, den)
+		}
+	})
+	b.Run("fixed", func(b *testing.B) {
+		f, err := NewFixedInterpolator(&mfbBandpass, vals, Amp{}, r, 3)
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.ReportAllocs()
+		for b.Loop() {
+			_ = f.Coefficients(vals, num, den)
+		}
+	})
+}

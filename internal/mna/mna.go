@@ -200,7 +200,7 @@ type Interpolator struct {
 // matrix is singular at s.
 func (w *Workspace) Transfer(n *Netlist, values []float64, a Amp, s complex128) (h, det complex128, err error) {
 	d := w.stamp(n, values, a, s)
-	return w.solve(d, n.Out-1)
+	return w.solveRec(d, n.Out-1, nil)
 }
 
 // CheckValues reports whether every value is positive and finite.
@@ -261,9 +261,11 @@ func (w *Workspace) stamp(n *Netlist, values []float64, a Amp, s complex128) int
 	return d
 }
 
-// solve runs Gaussian elimination with partial pivoting on the d×d system
-// and returns unknown out and the determinant.
-func (w *Workspace) solve(d, out int) (x, det complex128, err error) {
+// solveRec runs Gaussian elimination with partial pivoting on the d×d
+// system and returns unknown out and the determinant. When piv is not nil
+// it records the pivot row chosen in each column (in the row order of that
+// step), for FixedInterpolator.
+func (w *Workspace) solveRec(d, out int, piv *[MaxDim]int) (x, det complex128, err error) {
 	m := w.m[:d*d]
 	b := w.b[:d]
 	det = 1
@@ -277,6 +279,9 @@ func (w *Workspace) solve(d, out int) (x, det complex128, err error) {
 		}
 		if !(best > 0) || math.IsInf(best, 0) {
 			return 0, 0, ErrSingular
+		}
+		if piv != nil {
+			piv[c] = p
 		}
 		if p != c {
 			for j := c; j < d; j++ {

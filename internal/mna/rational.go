@@ -68,9 +68,25 @@ func (w *Interpolator) Coefficients(n *Netlist, values []float64, a Amp, radius 
 	if err := w.scaled(n, values, a, radius, m); err != nil {
 		return err
 	}
-	rn, rd := &w.rn, &w.rd
-	// Zero the rounding-level coefficients, undo the scaling s = r·z, and
-	// make den monic.
+	var pw powers
+	pw.fill(radius, m)
+	return finish(&w.rn, &w.rd, m, &pw, num, den)
+}
+
+// powers holds math.Pow(r, k) for k = −MaxDim..MaxDim at index k+MaxDim.
+type powers [2*MaxDim + 1]float64
+
+// fill sets the powers from −(m−1) to m−1.
+func (p *powers) fill(r float64, m int) {
+	for k := 1 - m; k < m; k++ {
+		p[k+MaxDim] = math.Pow(r, float64(k))
+	}
+}
+
+// finish turns the scaled coefficients rn, rd (m of each) into num and den:
+// it zeroes the rounding-level coefficients, undoes the scaling s = r·z
+// and makes den monic.
+func finish(rn, rd *[MaxDim + 1]float64, m int, pw *powers, num, den []float64) error {
 	clean := func(c []float64) {
 		big := 0.0
 		for _, x := range c {
@@ -97,7 +113,7 @@ func (w *Interpolator) Coefficients(n *Netlist, values []float64, a Amp, radius 
 	// Divide by rd[lead]·r^lead and scale coefficient j by r^(lead−j)
 	// without forming large powers: c_j/r^j / (d_lead/r^lead).
 	for j := range m {
-		sc := math.Pow(radius, float64(lead-j)) / rd[lead]
+		sc := pw[lead-j+MaxDim] / rd[lead]
 		num[j] = rn[j] * sc
 		den[j] = rd[j] * sc
 	}
