@@ -78,20 +78,44 @@ func (e Elliptic) Prototype(n int) (Transfer, error) {
 		return Transfer{}, fmt.Errorf("filter: Elliptic AttenDB %g with RippleDB %g: discrimination out of float64 range: %w", e.AttenDB, e.RippleDB, ErrRange)
 	}
 	k, kc := ellip.Degree(n, k1, k1c)
+	return e.build(n, ep2, k1, k1c, k, kc)
+}
+
+// build returns the order-n prototype of Prototype's construction from its
+// moduli: εp² = ep2, the discrimination k1 (k1c = √(1−k1²)) and the
+// selectivity k (kc = √(1−k²)), which must satisfy the degree equation
+// (Prototype solves it for k; the design path, which knows k, solves it
+// for k1 instead). e names the filter in error messages.
+//
+// The Jacobi functions are evaluated at the modulus k only, by one Landen
+// sequence (ellip.Landen) computed once: zero i is 1/(k·cd(uᵢK)), pole i is
+// j·cd((uᵢ − j·v0)K), and the cosines the climb starts from share
+// cosh(v0·π/2) and sinh(v0·π/2) (cos((u − jv)π/2) = cos(uπ/2)cosh(vπ/2) +
+// j·sin(uπ/2)sinh(vπ/2)), the cosine of the zero's argument being the real
+// factor of the pole's. The results are those of ellip.CD (Landen's
+// climb to the last bit; the start cosine to within an ulp of cmplx.Cos).
+func (e Elliptic) build(n int, ep2, k1, k1c, k, kc float64) (Transfer, error) {
 	// sn⁻¹(j/εp, k1) = j·sc⁻¹(1/εp, k1'), normalized by n·K(k1).
 	v0 := ellip.ArcSC(1/math.Sqrt(ep2), k1c, k1) / (float64(n) * ellip.KComp(k1c))
-	poles := make([]complex128, 0, n)
-	zeros := make([]complex128, 0, n-n%2)
-	for i := 1; i <= n/2; i++ {
+	lan := ellip.NewLanden(k, kc)
+	ch, sh := math.Cosh(v0*math.Pi/2), math.Sinh(v0*math.Pi/2)
+	m := n / 2
+	// One backing array: poles first, then zeros (the zeros' capacity ends
+	// at their length, so an append to them cannot overwrite the poles).
+	buf := make([]complex128, n+2*m)
+	poles, zeros := buf[:0:n], buf[n:n:n+2*m]
+	for i := 1; i <= m; i++ {
 		u := float64(2*i-1) / float64(n)
-		w := ellip.CD(complex(u, -v0), k, kc)
+		s, c := math.Sincos(u * math.Pi / 2)
+		w := lan.Climb(complex(c*ch, s*sh))
 		p := complex(-math.Abs(imag(w)), math.Abs(real(w))) // j·w, upper member
 		poles = append(poles, p, complex(real(p), -imag(p)))
-		z := 1 / (k * real(ellip.CD(complex(u, 0), k, kc)))
+		z := 1 / (k * lan.ClimbReal(c))
 		zeros = append(zeros, complex(0, z), complex(0, -z))
 	}
 	if n%2 == 1 {
-		w := ellip.CD(complex(1, -v0), k, kc)
+		s, c := math.Sincos(math.Pi / 2) // u = 1
+		w := lan.Climb(complex(c*ch, s*sh))
 		poles = append(poles, complex(-math.Abs(imag(w)), 0))
 	}
 	if len(poles) > 1 {

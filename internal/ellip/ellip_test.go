@@ -368,3 +368,22 @@ func FuzzJacobi(f *testing.F) {
 		_ = ArcSC(math.Abs(u), k, kc)
 	})
 }
+
+// TestLandenClimbMatchesCD checks that Landen.Climb and ClimbReal give the
+// bits of CD, over random moduli and arguments (rapid).
+func TestLandenClimbMatchesCD(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		kc := rapid.Float64Range(1e-12, 1).Draw(t, "kc")
+		k := math.Sqrt((1 - kc) * (1 + kc))
+		u := complex(rapid.Float64Range(-2, 2).Draw(t, "re"), rapid.Float64Range(-1, 1).Draw(t, "im"))
+		l := NewLanden(k, kc)
+		want := CD(u, k, kc)
+		if got := l.Climb(cmplx.Cos(u * math.Pi / 2)); got != want {
+			t.Fatalf("Climb(cos(%v·π/2)) = %v, CD = %v (k' = %g)", u, got, want, kc)
+		}
+		ur := real(u)
+		if got, want := l.ClimbReal(math.Cos(ur*math.Pi/2)), real(CD(complex(ur, 0), k, kc)); got != want {
+			t.Fatalf("ClimbReal(cos(%g·π/2)) = %.17g, CD = %.17g (k' = %g)", ur, got, want, kc)
+		}
+	})
+}

@@ -121,3 +121,64 @@ func ArcSC(x, k, kc float64) float64 {
 	r2 := r * r
 	return RF(r2, kc*kc+r2, 1+r2)
 }
+
+// Landen is the descending Landen sequence of one modulus (see CD), for
+// evaluating cd at many arguments of that modulus with the sequence
+// computed once. The zero value is the sequence of k = 0 (cd = cos).
+type Landen struct {
+	ks [16]float64
+	n  int
+}
+
+// NewLanden returns the descending Landen sequence of modulus k with
+// complementary modulus kc = √(1−k²).
+func NewLanden(k, kc float64) Landen {
+	var l Landen
+	l.n = landenSeq(&l.ks, k, kc)
+	return l
+}
+
+// Climb returns cd(u·K(k), k) given w = cos(uπ/2), climbing the sequence as
+// CD does: CD(u, k, kc) is NewLanden(k, kc).Climb(cmplx.Cos(u·π/2)), to the
+// last bit. The caller forms the cosine, which lets it share the parts of
+// cos((x − jy)π/2) = cos(xπ/2)·cosh(yπ/2) + j·sin(xπ/2)·sinh(yπ/2) that
+// many arguments have in common.
+func (l *Landen) Climb(w complex128) complex128 {
+	re, im := real(w), imag(w)
+	for i := l.n - 1; i >= 0; i-- {
+		k := l.ks[i]
+		// (1+k)·w / (1 + k·w²), the operations of complex128 arithmetic
+		// written out (so the bits are those of CD) and the quotient by
+		// Smith's method as Go's runtime divides (R. L. Smith, "Algorithm
+		// 116: Complex division", CACM 5(8), 1962; from memory).
+		// (CD's k·w·w multiplies k·w by w.)
+		nr, ni := (1+k)*re, (1+k)*im
+		kr, ki := k*re, k*im
+		dr, di := 1+(kr*re-ki*im), kr*im+ki*re
+		re, im = smithDiv(nr, ni, dr, di)
+	}
+	return complex(re, im)
+}
+
+// ClimbReal is Climb for a real argument: cd(u·K(k), k) given
+// w = cos(uπ/2), equal to real(Climb(complex(w, 0))) to the last bit.
+func (l *Landen) ClimbReal(w float64) float64 {
+	for i := l.n - 1; i >= 0; i-- {
+		k := l.ks[i]
+		w = (1 + k) * w / (1 + k*w*w)
+	}
+	return w
+}
+
+// smithDiv returns (a + jb)/(c + jd) by Smith's method, as Go's runtime
+// complex division computes it for finite operands.
+func smithDiv(a, b, c, d float64) (e, f float64) {
+	if math.Abs(c) >= math.Abs(d) {
+		r := d / c
+		den := c + r*d
+		return (a + b*r) / den, (b - a*r) / den
+	}
+	r := c / d
+	den := d + r*c
+	return (a*r + b) / den, (b*r - a) / den
+}

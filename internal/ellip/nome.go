@@ -29,22 +29,29 @@ func Nome(k, kc float64) float64 {
 // where the series converge after a handful of terms.
 func theta(q float64) (t2, t3, t4 float64) {
 	// θ₂ = 2q^¼ Σ q^{m(m+1)}, θ₃ = 1 + 2Σ q^{m²}, θ₄ = 1 + 2Σ (−1)^m q^{m²}.
+	// The powers follow by products, q^{(m+1)²} = q^{m²}·q^{2m+1} and
+	// q^{(m+1)(m+2)} = q^{m(m+1)}·q^{2m+2}, each a rounding from the
+	// exact power per term; with q ≤ e^−π the fifth term is below 1e-28
+	// of the first, so the loop ends after at most five.
+	q2 := q * q
+	a, b := q, q2      // q^{m²} and q^{m(m+1)} at m = 1
+	ea, eb := q*q2, q2 // q^{2m+1}, and q^{2m} (raised to q^{2m+2} before use)
 	s2, s3, s4 := 1.0, 0.0, 0.0
-	for m := 1; m < 12; m++ {
-		fm := float64(m)
-		a := math.Pow(q, fm*fm)
-		s2 += math.Pow(q, fm*(fm+1))
+	sign := -1.0
+	for range 11 {
+		s2 += b
 		s3 += a
-		if m%2 == 1 {
-			s4 -= a
-		} else {
-			s4 += a
-		}
+		s4 += sign * a
 		if a < 1e-20 {
 			break
 		}
+		sign = -sign
+		a *= ea
+		ea *= q2
+		eb *= q2
+		b *= eb
 	}
-	return 2 * math.Pow(q, 0.25) * s2, 1 + 2*s3, 1 + 2*s4
+	return 2 * math.Sqrt(math.Sqrt(q)) * s2, 1 + 2*s3, 1 + 2*s4
 }
 
 // ModulusFromRatio returns the modulus k and the complementary modulus
