@@ -12,20 +12,18 @@ import (
 // its attenuation to when the order has slack (see Design).
 const maxSlackAttenDB = 150
 
-// ellipticAtten returns the stopband attenuation in dB that an elliptic
-// filter of order n reaches with ripple rp dB and selectivity 1/sel: the
-// degree equation n·K'(k)/K(k) = K'(k1)/K(k1) (DLMF 22.2, the equation of
-// MinOrder's Elliptic order estimate) solved for the discrimination
-// k1 = εp/εs, then
-// As = 10·log10(1 + εp²/k1²).
-func ellipticAtten(n int, sel, rp float64) float64 {
-	k, kc := 1/sel, math.Sqrt((sel-1)*(sel+1))/sel
-	k1, _ := ellip.ModulusFromRatio(float64(n) * ellip.PeriodRatio(k, kc))
+// ellipticSlack returns the stopband attenuation in dB that an elliptic
+// filter of order n reaches with ripple εp² = ep2 and stopband edge sel
+// (selectivity k = 1/sel): the degree equation n·K'(k)/K(k) = K'(k1)/K(k1)
+// (DLMF 22.2, the equation of MinOrder's Elliptic order estimate) solved
+// for the discrimination k1 = εp/εs, then As = 10·log10(1 + εp²/k1²). It
+// also returns k1 and k1c = √(1−k1²); As is +Inf where k1 underflows.
+func ellipticSlack(n int, k, kc, ep2 float64) (as, k1, k1c float64) {
+	k1, k1c = ellip.ModulusFromRatio(float64(n) * ellip.PeriodRatio(k, kc))
 	if !(k1 > 0) {
-		return math.Inf(1)
+		return math.Inf(1), k1, k1c
 	}
-	e2 := dbPowM1(rp)
-	return 10 / math.Ln10 * math.Log1p(e2/(k1*k1))
+	return 10 / math.Ln10 * math.Log1p(ep2/(k1*k1)), k1, k1c
 }
 
 // magAt returns |H(jw)| from real arithmetic: |Gain| times the square
@@ -115,8 +113,19 @@ func (r resolved) lowpass(sel float64, n int) (Transfer, error) {
 	case kindElliptic:
 		fam := r.fam.(Elliptic)
 		if r.freeAtt {
-			as := math.Min(ellipticAtten(n, sel, r.rp), maxSlackAttenDB)
-			fam.AttenDB = math.Max(fam.AttenDB, as)
+			// The slack raises the attenuation to what order n reaches at
+			// the stopband edge sel: the degree equation solved for the
+			// discrimination k1 with the selectivity k = 1/sel known. Within
+			// the cap the prototype is built from these moduli directly
+			// (Prototype would solve the equation back for k).
+			k, kc := 1/sel, math.Sqrt((sel-1)*(sel+1))/sel
+			ep2 := dbPowM1(r.rp)
+			as, k1, k1c := ellipticSlack(n, k, kc, ep2)
+			if as <= maxSlackAttenDB && as >= fam.AttenDB && k1c > 0 && n <= MaxEllipticOrder {
+				fam.AttenDB = as
+				return fam.build(n, ep2, k1, k1c, k, kc)
+			}
+			fam.AttenDB = math.Max(fam.AttenDB, math.Min(as, maxSlackAttenDB))
 		}
 		return fam.Prototype(n)
 	case kindBessel:
@@ -189,8 +198,10 @@ func (r resolved) meets(h Transfer, s Spec) bool {
 // The dense grid of meetsOnGrid is kept for outside families and, in the
 // tests, as the check of this rule.
 func meetsAtEdges(h Transfer, s Spec, rp, as float64) bool {
-	passMin := math.Pow(10, -(rp+MaskToleranceDB)/20) // least |H| in the passband
-	stopMax := math.Pow(10, -(as-MaskToleranceDB)/20) // greatest |H| in the stopband
+	// 10^(−x/20) as an exponential (a fraction of an ulp from math.Pow's,
+	// far below MaskToleranceDB).
+	passMin := math.Exp(-(rp + MaskToleranceDB) * (math.Ln10 / 20)) // least |H| in the passband
+	stopMax := math.Exp(-(as - MaskToleranceDB) * (math.Ln10 / 20)) // greatest |H| in the stopband
 	pass := func(f float64) bool { return magAt(h, 2*math.Pi*f) >= passMin }
 	stop := func(f float64) bool { return magAt(h, 2*math.Pi*f) <= stopMax }
 	p, t := s.PassHz, s.StopHz
