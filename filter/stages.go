@@ -306,22 +306,21 @@ func assignZeros(secs []section, zeros, poles []complex128) error {
 // distributeGain sets the stage gains so that the cascade's product is h.
 //
 // GainDynamic: stage k's gain is chosen so that the cascade up to and
-// including stage k peaks exactly at the final output's peak. The peaks are
-// found on one frequency grid (peakGrid) on which every unit stage's
-// squared magnitude is evaluated once, the cascades' values following as
-// running products, then refined around each leading local maximum by
-// golden-section search: linear in the order and the grid size.
+// including stage k peaks exactly at the final output's peak. The peaks
+// are those of the unit stages' cascades (cascadePeaks), whose squared
+// magnitudes are evaluated in real arithmetic (stagePower) once per point
+// of the search grid, the cascades' values following as running products:
+// linear in the order and the grid size.
 func distributeGain(stages []Stage, h Transfer, plan GainPlan) error {
 	n := len(stages)
-	unit := make([]Transfer, n)
-	// rest = Gain / Π c_k, with c_k the leading constant of the unit stage.
+	// rest = Gain / Π c_k, with c_k the leading constant of the unit stage
+	// (Stage.Transfer's Gain at stage gain 1).
 	rest := newScaled(h.Gain)
 	for i := range stages {
-		unit[i] = stages[i].Transfer()
-		rest = rest.div(complex(unit[i].Gain, 0))
+		rest = rest.div(complex(unitConst(stages[i]), 0))
 	}
 	if plan == GainDynamic && n > 1 {
-		peakU := cascadePeaks(unit, peakGrid(h))
+		peakU := cascadePeaks(stages, h)
 		// The final output's peak: |rest|·(peak of the unit cascade).
 		peak, err := rest.mul(complex(peakU[n-1], 0)).real("peak gain")
 		if err != nil {
@@ -351,37 +350,303 @@ func distributeGain(stages []Stage, h Transfer, plan GainPlan) error {
 	return nil
 }
 
-// peakGrid returns the sorted frequencies (rad/s) at which a cascade with
-// the poles and zeros of h is searched for its peak: 0, a log grid of 24
-// points a decade from a hundredth of the lowest to a hundred times the
-// highest pole or zero frequency, points at and around every resonance
-// (its pole frequency, the imaginary part plus multiples of a quarter of the
-// real part up to three times it each side, the resonance peak of a pole pair of Q above 1/√2), and a point far above
-// (the limit at infinity). Near-duplicates are dropped (a pole point equal
-// to a grid point up to rounding would make a bracket too narrow to hold
-// the maximum beside it).
-func peakGrid(h Transfer) []float64 {
+// unitConst returns the gain of Stage.Transfer for s at stage gain 1: the
+// constant that gives the unit stage gain 1 at its reference frequency
+// (the same expressions, so the same bits).
+func unitConst(s Stage) float64 {
+	w0 := 2 * math.Pi * s.F0Hz
+	if s.Order == 1 {
+		if s.Kind == LowpassStage {
+			return w0
+		}
+		return 1
+	}
+	switch s.Kind {
+	case LowpassStage:
+		return w0 * w0
+	case HighpassStage:
+		return 1
+	case BandpassStage:
+		return w0 / s.Q
+	default: // NotchStage
+		wz := 2 * math.Pi * s.ZeroHz
+		return (w0 / wz) * (w0 / wz)
+	}
+}
+
+// stagePower is a unit stage's squared magnitude |H(jω)|² (gain 1 at its
+// reference frequency) as a function of t = (ω/ω0)² for ω ≤ ω0 and of
+// u = 1/t = (ω0/ω)² above, scale-free so that no power of ω over- or
+// underflows. With v the one of t and u that is at most 1:
+//
+//	second order:  D = (1−v)² + v/Q²  (|s² + (ω0/Q)s + ω0²|² at s = jω is
+//	               (ω0² − ω²)² + (ω0/Q)²ω², common practice, over ω0⁴, or
+//	               over ω⁴ above ω0)
+//	  lowpass      1/D below ω0, v²/D above
+//	  highpass     v²/D below, 1/D above
+//	  bandpass     (v/Q²)/D
+//	  notch        (1 − γv)²/D below, (γ − v)²/D above, γ = (ω0/ωz)²
+//	first order:   D = 1 + v; lowpass 1/D below, v/D above; highpass the
+//	               other way round
+//
+// At ω = 0 and ω = +Inf each form gives its limit, not NaN. Each value
+// costs one division, the caller sharing 1/ω among the stages.
+type stagePower struct {
+	kind  StageKind
+	order int
+	w0    float64 // rad/s
+	iw0   float64 // 1/ω0, s per rad
+	beta  float64 // 1/Q²
+	gamma float64 // notch: (ω0/ωz)²
+}
+
+func newStagePower(s Stage) stagePower {
+	w0 := 2 * math.Pi * s.F0Hz
+	p := stagePower{kind: s.Kind, order: s.Order, w0: w0, iw0: 1 / w0}
+	if s.Order == 2 {
+		p.beta = 1 / (s.Q * s.Q)
+		if s.Kind == NotchStage {
+			r := w0 / (2 * math.Pi * s.ZeroHz)
+			p.gamma = r * r
+		}
+	}
+	return p
+}
+
+// at returns the stage's |H(jω)|² at ω rad/s (ω ≥ 0), iw = 1/ω. The
+// choices between the forms are selections, not branches (the side of ω0
+// changes from stage to stage at one frequency, which a branch would
+// mispredict).
+func (p *stagePower) at(w, iw float64) float64 {
+	rl, rh := w*p.iw0, p.w0*iw
+	low := rl <= 1
+	r := rh
+	if low {
+		r = rl
+	}
+	v := r * r
+	if p.order == 1 {
+		lowForm := low == (p.kind == LowpassStage)
+		n := v
+		if lowForm {
+			n = 1
+		}
+		return n / (1 + v)
+	}
+	d := 1 - v
+	d = d*d + p.beta*v
+	var n float64
+	switch p.kind {
+	case LowpassStage, HighpassStage:
+		n = v * v
+		if low == (p.kind == LowpassStage) {
+			n = 1
+		}
+	case BandpassStage:
+		n = p.beta * v
+	default: // NotchStage
+		a, b := 1.0, p.gamma
+		if !low {
+			a, b = p.gamma, 1
+		}
+		n = a - b*v
+		n *= n
+	}
+	return n / d
+}
+
+// times sets dst[j] = prev[j]·|H(jω)|² at ω = pts[j] (ipts[j] = 1/ω) for
+// every j, prev nil standing for ones: at over a whole grid, with the
+// stage's kind chosen once rather than per point (the loops are those of
+// at, form for form).
+func (p *stagePower) times(dst, prev, pts, ipts []float64) {
+	ipts = ipts[:len(pts)]
+	dst = dst[:len(pts)]
+	if prev != nil {
+		prev = prev[:len(pts)]
+	}
+	one := func(j int) float64 {
+		if prev == nil {
+			return 1
+		}
+		return prev[j]
+	}
+	iw0, w0, beta := p.iw0, p.w0, p.beta
+	sel := func(w, iw float64) (v float64, low bool) {
+		rl, rh := w*iw0, w0*iw
+		low = rl <= 1
+		r := rh
+		if low {
+			r = rl
+		}
+		return r * r, low
+	}
+	if p.order == 1 {
+		lp := p.kind == LowpassStage
+		for j, w := range pts {
+			v, low := sel(w, ipts[j])
+			n := v
+			if low == lp {
+				n = 1
+			}
+			dst[j] = one(j) * (n / (1 + v))
+		}
+		return
+	}
+	switch p.kind {
+	case LowpassStage, HighpassStage:
+		lp := p.kind == LowpassStage
+		for j, w := range pts {
+			v, low := sel(w, ipts[j])
+			d := 1 - v
+			n := v * v
+			if low == lp {
+				n = 1
+			}
+			dst[j] = one(j) * (n / (d*d + beta*v))
+		}
+	case BandpassStage:
+		for j, w := range pts {
+			v, _ := sel(w, ipts[j])
+			d := 1 - v
+			dst[j] = one(j) * (beta * v / (d*d + beta*v))
+		}
+	default: // NotchStage
+		g := p.gamma
+		for j, w := range pts {
+			v, low := sel(w, ipts[j])
+			a, b := 1.0, g
+			if !low {
+				a, b = g, 1
+			}
+			d := 1 - v
+			n := a - b*v
+			dst[j] = one(j) * (n * n / (d*d + beta*v))
+		}
+	}
+}
+
+// maxStackStages is the number of stages whose powers cascadePeaks keeps on
+// the stack.
+const maxStackStages = 16
+
+// cascadePeaks returns, for k = 0 … len(stages)−1, the peak over ω ≥ 0 of
+// |Π_{i≤k} unit stage i (jω)|, h giving the poles and zeros that set the
+// search grid (peakSegments). Every segment of the grid is scanned with
+// the cascades' squared magnitudes as running products, and every local
+// maximum inside a segment within a factor 4 of the best value found is
+// refined by goldenMax between its neighbours.
+func cascadePeaks(stages []Stage, h Transfer) []float64 {
+	n := len(stages)
+	var pwBuf [maxStackStages]stagePower
+	pw := pwBuf[:0]
+	if n > maxStackStages {
+		pw = make([]stagePower, 0, n)
+	}
+	for _, s := range stages {
+		pw = append(pw, newStagePower(s))
+	}
+	var ptsBuf [512]float64
+	var segsBuf [64]int
+	pts, segs := peakSegments(h, ptsBuf[:0], segsBuf[:0])
+	np := len(pts)
+	// run[k*np+j]: squared magnitude of the cascade up to stage k at
+	// pts[j]; the last np values hold 1/pts[j].
+	var runBuf [2048]float64
+	run := runBuf[:]
+	if need := (n + 1) * np; need <= len(runBuf) {
+		run = runBuf[:need]
+	} else {
+		run = make([]float64, need)
+	}
+	ipts := run[n*np:]
+	for j, w := range pts {
+		ipts[j] = 1 / w
+	}
+	peaks := make([]float64, n)
+	var prev []float64
+	for k := range pw {
+		row := run[k*np : (k+1)*np]
+		pw[k].times(row, prev, pts, ipts)
+		prev = row
+	}
+	var foundBuf [16]float64
+	found := foundBuf[:0] // where this cascade's refined maxima are
+	for k := range n {
+		cascade := func(w float64) float64 {
+			iw := 1 / w
+			v := 1.0
+			for i := range k + 1 {
+				v *= pw[i].at(w, iw)
+			}
+			return v
+		}
+		row := run[k*np : (k+1)*np]
+		bk := 0.0
+		for _, v := range row {
+			if v > bk {
+				bk = v
+			}
+		}
+		lo := 0
+		found = found[:0]
+		for _, hi := range segs {
+		next:
+			for j := lo + 1; j < hi-1; j++ {
+				v := row[j]
+				if v < bk/4 || row[j-1] > v || row[j+1] > v {
+					continue
+				}
+				// A bracket holding a maximum already refined (found by
+				// another segment) is skipped: goldenMax takes the cascade
+				// to be unimodal on its bracket, so it would return that
+				// maximum again.
+				a, b := pts[j-1], pts[j+1]
+				for _, x := range found {
+					if a < x && x < b {
+						continue next
+					}
+				}
+				x, p := goldenMax(cascade, a, b, pts[j], v)
+				found = append(found, x)
+				if p > bk {
+					bk = p
+				}
+			}
+			lo = hi
+		}
+		peaks[k] = math.Sqrt(bk)
+	}
+	return peaks
+}
+
+// peakSegments returns the frequencies (rad/s) at which a cascade with the
+// poles and zeros of h is searched for its peak, as consecutive segments
+// each in ascending order (segs holds the end index of each), appended to
+// pts[:0] and segs[:0]:
+//
+//   - 0, a log grid of 24 points a decade from a hundredth of the lowest to
+//     a hundred times the highest pole or zero frequency, and a point far
+//     above (the limit at infinity);
+//   - for every complex pole pair −α ± jβ, β + c·α/4 for c = −12 … 12 (those
+//     above 0): quarter half-bandwidth steps over three half-bandwidths
+//     each side, so that a partial cascade's peak between two resonances,
+//     beside a dip, is bracketed (coarser steps let such a peak, 1e-5 above
+//     its neighbours, slip between them);
+//   - for the same pair, for Q above 1/√2, its pole frequency ω0 and the
+//     resonance peaks ω0·ρ and ω0/ρ either side, ρ = √(1 − 1/(2Q²)), with
+//     ω0·ρ² and ω0/ρ² outside them, so that each is inside its segment.
+//
+// The segments are scanned apart, so no merge or sort is needed and no two
+// points of one segment coincide.
+func peakSegments(h Transfer, pts []float64, segs []int) ([]float64, []int) {
 	lo, hi := math.Inf(1), 0.0
-	pts := []float64{0}
+	pairs := 0
 	for _, p := range h.Poles {
 		m := cmplx.Abs(p)
 		lo, hi = math.Min(lo, m), math.Max(hi, m)
-		re, im := math.Abs(real(p)), math.Abs(imag(p))
-		pts = append(pts, m)
-		if im > 0 {
-			// Quarter half-bandwidth steps over three half-bandwidths each
-			// side: a partial cascade's peak between two resonances, beside
-			// a dip, is then bracketed by grid points (coarser steps let
-			// such a peak, 1e-5 above its neighbours, slip between them).
-			for c := -12; c <= 12; c++ {
-				if w := im + float64(c)/4*re; w > 0 {
-					pts = append(pts, w)
-				}
-			}
-			if q := m / (2 * re); q > math.Sqrt2/2 {
-				r := math.Sqrt(1 - 1/(2*q*q))
-				pts = append(pts, m*r, m/r)
-			}
+		if imag(p) > 0 {
+			pairs++
 		}
 	}
 	for _, z := range h.Zeros {
@@ -391,6 +656,12 @@ func peakGrid(h Transfer) []float64 {
 	}
 	lo, hi = lo/100, hi*100
 	nGrid := int(math.Ceil(24*math.Log10(hi/lo))) + 1
+	if !(nGrid > 1) || nGrid > 1<<16 {
+		nGrid = 2 // a span float64 cannot grid: its ends only
+	}
+	pts = slices.Grow(pts[:0], nGrid+2+pairs*30)
+	segs = slices.Grow(segs[:0], 1+2*pairs)
+	pts = append(pts, 0)
 	step := math.Pow(hi/lo, 1/float64(nGrid-1))
 	w := lo
 	for range nGrid {
@@ -398,77 +669,46 @@ func peakGrid(h Transfer) []float64 {
 		w *= step
 	}
 	pts = append(pts, hi*1e6)
-	slices.Sort(pts)
-	return slices.CompactFunc(pts, func(a, b float64) bool { return math.Abs(a-b) <= 1e-9*math.Max(a, b) })
-}
-
-// mag2At returns |H(jw)|² of a stage's transfer function (at most two
-// poles and two zeros, so no scaling is needed).
-func mag2At(h Transfer, w float64) float64 {
-	v := h.Gain * h.Gain
-	for _, z := range h.Zeros {
-		v *= sqDist(z, w)
-	}
+	segs = append(segs, len(pts))
 	for _, p := range h.Poles {
-		v /= sqDist(p, w)
-	}
-	return v
-}
-
-// cascadePeaks returns, for k = 0 … len(unit)−1, the peak over w ≥ 0 of
-// |Π_{i≤k} unit[i](jw)|, searched on the grid pts and refined around every
-// local maximum within a factor 2 of the best grid value.
-func cascadePeaks(unit []Transfer, pts []float64) []float64 {
-	n, np := len(unit), len(pts)
-	run := make([]float64, np) // squared magnitude of the cascade so far
-	for j := range run {
-		run[j] = 1
-	}
-	peaks := make([]float64, n)
-	for k := range n {
-		best := 0.0
-		for j, w := range pts {
-			run[j] *= mag2At(unit[k], w)
-			best = math.Max(best, run[j])
+		re, im := math.Abs(real(p)), imag(p)
+		if !(im > 0) {
+			continue
 		}
-		cascade := func(w float64) float64 {
-			v := 1.0
-			for i := range k + 1 {
-				v *= mag2At(unit[i], w)
+		for c := -12; c <= 12; c++ {
+			if w := im + float64(c)/4*re; w > 0 {
+				pts = append(pts, w)
 			}
-			return v
 		}
-		for j := range np {
-			v := run[j]
-			if v < best/4 || (j > 0 && run[j-1] > v) || (j+1 < np && run[j+1] > v) {
-				continue
-			}
-			a, b := pts[max(j-1, 0)], pts[min(j+1, np-1)]
-			best = math.Max(best, goldenMax(cascade, a, b))
+		segs = append(segs, len(pts))
+		m := cmplx.Abs(p)
+		if q := m / (2 * re); q > math.Sqrt2/2 {
+			r := math.Sqrt(1 - 1/(2*q*q))
+			pts = append(pts, m*r*r, m*r, m, m/r, m/r/r)
+			segs = append(segs, len(pts))
 		}
-		peaks[k] = math.Sqrt(best)
 	}
-	return peaks
+	return pts, segs
 }
 
 // goldenMax returns the largest value of g found on [a, b] (g unimodal
-// there) by Brent's method, golden-section steps safeguarding parabolic
-// ones (R. P. Brent, Algorithms for Minimization without Derivatives,
-// 1973, ch. 5; from memory of its localmin procedure), to 1e-10 relative in
-// x: the value of a smooth peak is then exact to far below 1e-12 relative.
-// A smooth peak takes some ten evaluations where golden sections alone take
-// forty.
-func goldenMax(g func(float64) float64, a, b float64) float64 {
+// there, x0 inside with g(x0) = g0 no less than at the ends) by Brent's
+// method, golden-section steps safeguarding parabolic ones (R. P. Brent,
+// Algorithms for Minimization without Derivatives, 1973, ch. 5; from
+// memory of its localmin procedure), started from x0, to 1e-10 relative
+// in x: the value of a smooth peak is then exact to far below 1e-12
+// relative. A smooth peak takes some eight evaluations where golden
+// sections alone take forty.
+func goldenMax(g func(float64) float64, a, b, x0, g0 float64) (xBest, gBest float64) {
 	const (
 		cgold = 0.3819660112501051 // 2 − φ
 		rel   = 1e-10
 	)
 	f := func(x float64) float64 { return -g(x) } // minimize −g
-	x := a + cgold*(b-a)
+	x := x0
 	w, v := x, x
-	fx := f(x)
+	fx := -g0
 	fw, fv := fx, fx
-	best := fx
 	var d, e float64
 	for range 100 {
 		m := (a + b) / 2
@@ -508,7 +748,6 @@ func goldenMax(g func(float64) float64, a, b float64) float64 {
 			u = x + math.Copysign(tol, d)
 		}
 		fu := f(u)
-		best = math.Min(best, fu)
 		if fu <= fx {
 			if u < x {
 				b = x
@@ -529,7 +768,7 @@ func goldenMax(g func(float64) float64, a, b float64) float64 {
 			}
 		}
 	}
-	// The bracket's ends are grid points already searched; the interior
-	// best is what the search adds.
-	return -best
+	// x is the best point evaluated (the bracket's ends, grid points
+	// already searched, are no better than x0).
+	return x, -fx
 }
