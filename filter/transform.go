@@ -59,7 +59,20 @@ func (x scaled) norm() scaled {
 	return x
 }
 
+// midRange reports whether both parts of z are at most 2^400 in magnitude
+// and the larger at least 2^-400: a product or quotient of two such
+// numbers is a normal float64, and equals, up to an exact power of two,
+// the one of their normalized forms.
+func midRange(z complex128) bool {
+	a := max(math.Abs(real(z)), math.Abs(imag(z)))
+	return a >= 0x1p-400 && a <= 0x1p400
+}
+
 func (x scaled) mul(c complex128) scaled {
+	if midRange(x.m) && midRange(c) {
+		x.m *= c // the bits of the normalizing path below, without its cost
+		return x
+	}
 	// Normalize the factor first, so that neither it nor the product leaves
 	// the range.
 	a := math.Max(math.Abs(real(c)), math.Abs(imag(c)))
@@ -74,6 +87,10 @@ func (x scaled) mul(c complex128) scaled {
 }
 
 func (x scaled) div(c complex128) scaled {
+	if midRange(x.m) && midRange(c) {
+		x.m /= c
+		return x
+	}
 	a := math.Max(math.Abs(real(c)), math.Abs(imag(c)))
 	_, e := math.Frexp(a)
 	c = complex(math.Ldexp(real(c), -e), math.Ldexp(imag(c), -e))
