@@ -151,7 +151,7 @@ func (h Transfer) StagesWith(opt StageOptions) ([]Stage, error) {
 // poleSections pairs the poles into sections (without zeros).
 func poleSections(poles []complex128) ([]section, error) {
 	used := make([]bool, len(poles))
-	var secs []section
+	secs := make([]section, 0, (len(poles)+1)/2)
 	var reals []float64 // magnitudes of real poles
 	for i, p := range poles {
 		if used[i] {
@@ -163,12 +163,7 @@ func poleSections(poles []complex128) ([]section, error) {
 		used[i] = true
 		mag := cmplx.Abs(p)
 		if imag(p) != 0 {
-			best, bj := math.Inf(1), -1
-			for j := i + 1; j < len(poles); j++ {
-				if d := cmplx.Abs(poles[j] - cmplx.Conj(p)); !used[j] && d < best {
-					best, bj = d, j
-				}
-			}
+			best, bj := nearestConj(poles, used, i)
 			if bj >= 0 && best <= stagePairTol*mag {
 				used[bj] = true
 				q := poles[bj]
@@ -196,6 +191,25 @@ func poleSections(poles []complex128) ([]section, error) {
 		secs = append(secs, section{order: 1, w0: reals[0]})
 	}
 	return secs, nil
+}
+
+// nearestConj returns the index j > i of the unused root of rs nearest to
+// the conjugate of rs[i], and that distance (+Inf and −1 for none). An
+// exact conjugate next to it, the layout of every prototype and
+// transform of this package, is the answer at once (distance 0, the
+// least, and the first such j).
+func nearestConj(rs []complex128, used []bool, i int) (float64, int) {
+	c := cmplx.Conj(rs[i])
+	if i+1 < len(rs) && !used[i+1] && rs[i+1] == c {
+		return 0, i + 1
+	}
+	best, bj := math.Inf(1), -1
+	for j := i + 1; j < len(rs); j++ {
+		if d := cmplx.Abs(rs[j] - c); !used[j] && d < best {
+			best, bj = d, j
+		}
+	}
+	return best, bj
 }
 
 // mean returns the mean of a and b without overflow near the top of the
@@ -230,12 +244,7 @@ func assignZeros(secs []section, zeros, poles []complex128) error {
 		if math.Abs(real(z)) > stageAxisTol*mag {
 			return fmt.Errorf("filter: stages: zero %v neither on the jω axis nor at the origin: %w", z, ErrStage)
 		}
-		best, bj := math.Inf(1), -1
-		for j := i + 1; j < len(zeros); j++ {
-			if d := cmplx.Abs(zeros[j] - cmplx.Conj(z)); !used[j] && d < best {
-				best, bj = d, j
-			}
-		}
+		best, bj := nearestConj(zeros, used, i)
 		if bj < 0 || best > stagePairTol*mag {
 			return fmt.Errorf("filter: stages: jω-axis zero %v has no conjugate: %w", z, ErrStage)
 		}
