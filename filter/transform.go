@@ -102,22 +102,32 @@ func (x scaled) div(c complex128) scaled {
 // real returns the real part of x as a float64, or ErrRange when it is
 // non-zero but outside the normal float64 range (or not finite). what
 // names the quantity in the message.
-func (x scaled) real(what string) (float64, error) {
+func (x scaled) real(what string) (float64, error) { return x.realOf(what, "") }
+
+// realOf is real with the quantity named what+suffix, the two joined only
+// for an error message (a transform's result calls it on every design).
+func (x scaled) realOf(what, suffix string) (float64, error) {
 	r := real(x.m)
 	if math.IsNaN(r) || math.IsInf(r, 0) {
-		return 0, fmt.Errorf("filter: %s not finite: %w", what, ErrRange)
+		return 0, fmt.Errorf("filter: %s%s not finite: %w", what, suffix, ErrRange)
 	}
 	if r == 0 {
 		return 0, nil
 	}
 	v := math.Ldexp(r, x.e)
 	if math.IsInf(v, 0) {
-		return 0, fmt.Errorf("filter: %s overflows float64 (about 2^%d): %w", what, x.e, ErrRange)
+		return 0, fmt.Errorf("filter: %s%s overflows float64 (about 2^%d): %w", what, suffix, x.e, ErrRange)
 	}
 	if math.Abs(v) < 0x1p-1022 {
-		return 0, fmt.Errorf("filter: %s underflows float64 (about 2^%d): %w", what, x.e, ErrRange)
+		return 0, fmt.Errorf("filter: %s%s underflows float64 (about 2^%d): %w", what, suffix, x.e, ErrRange)
 	}
 	return v, nil
+}
+
+// finiteC reports whether both parts of z are finite (NaN fails both
+// comparisons).
+func finiteC(z complex128) bool {
+	return math.Abs(real(z)) <= math.MaxFloat64 && math.Abs(imag(z)) <= math.MaxFloat64
 }
 
 // checkRoots reports a non-finite pole or zero of h.
@@ -126,12 +136,12 @@ func (h Transfer) checkRoots() error {
 		return fmt.Errorf("filter: transfer Gain %g not finite: %w", h.Gain, ErrRange)
 	}
 	for i, z := range h.Zeros {
-		if cmplx.IsNaN(z) || cmplx.IsInf(z) {
+		if !finiteC(z) {
 			return fmt.Errorf("filter: transfer Zeros[%d] = %v not finite: %w", i, z, ErrRange)
 		}
 	}
 	for i, p := range h.Poles {
-		if cmplx.IsNaN(p) || cmplx.IsInf(p) {
+		if !finiteC(p) {
 			return fmt.Errorf("filter: transfer Poles[%d] = %v not finite: %w", i, p, ErrRange)
 		}
 	}
@@ -145,7 +155,7 @@ func (h Transfer) checkRoots() error {
 // at −0 + jω, on the axis: a silently unstable result).
 func checkMapped(what string, rs, in []complex128) error {
 	for i, r := range rs {
-		if cmplx.IsNaN(r) || cmplx.IsInf(r) {
+		if !finiteC(r) {
 			return fmt.Errorf("filter: transformed %s[%d] not finite: %w", what, i, ErrRange)
 		}
 	}
@@ -287,8 +297,10 @@ func quadPair(b, c complex128) (complex128, complex128) {
 // adjacent exact conjugate pair (r, r̄) it maps r alone and emits
 // (x1, x̄1, x2, x̄2), each pair with the sign order of (r, r̄); a real r
 // whose two roots are complex emits them positive imaginary part first.
-func bandRoots(rs []complex128, b func(complex128) complex128, c complex128) []complex128 {
-	out := make([]complex128, 0, 2*len(rs))
+// The result has room for extra more roots (the caller's zeros or poles at
+// the origin).
+func bandRoots(rs []complex128, b func(complex128) complex128, c complex128, extra int) []complex128 {
+	out := make([]complex128, 0, 2*len(rs)+max(extra, 0))
 	for i := 0; i < len(rs); i++ {
 		r := rs[i]
 		x1, x2 := quadPair(b(r), c)
@@ -344,8 +356,8 @@ func (h Transfer) ToBandpass(centerHz, widthHz float64) (Transfer, error) {
 	}
 	cb := complex(bw, 0)
 	mapB := func(r complex128) complex128 { return r * cb }
-	zeros := bandRoots(h.Zeros, mapB, c)
-	poles := bandRoots(h.Poles, mapB, c)
+	zeros := bandRoots(h.Zeros, mapB, c, len(h.Poles)-len(h.Zeros))
+	poles := bandRoots(h.Poles, mapB, c, len(h.Zeros)-len(h.Poles))
 	g := newScaled(h.Gain)
 	d := len(h.Poles) - len(h.Zeros)
 	for ; d > 0; d-- {
@@ -407,8 +419,8 @@ func (h Transfer) ToBandstop(centerHz, widthHz float64) (Transfer, error) {
 		npFinite = append(npFinite, p)
 	}
 	mapB := func(r complex128) complex128 { return cb / r }
-	zeros = bandRoots(nzFinite, mapB, c)
-	poles = bandRoots(npFinite, mapB, c)
+	zeros = bandRoots(nzFinite, mapB, c, 0)
+	poles = bandRoots(npFinite, mapB, c, 0)
 	for range originZeros {
 		zeros = append(zeros, 0)
 	}
@@ -431,7 +443,7 @@ func (h Transfer) ToBandstop(centerHz, widthHz float64) (Transfer, error) {
 // the poles strictly in the left half-plane, then compacts out.
 func finish(out Transfer, g scaled, h Transfer, what string) (Transfer, error) {
 	var err error
-	if out.Gain, err = g.real(what + " gain"); err != nil {
+	if out.Gain, err = g.realOf(what, " gain"); err != nil {
 		return Transfer{}, err
 	}
 	if err := checkMapped("poles", out.Poles, h.Poles); err != nil {
