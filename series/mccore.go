@@ -24,12 +24,27 @@ func (b bq) power(w2 float64) float64 {
 // coefficients. Each worker owns its own evalFunc; it must not allocate.
 type evalFunc func(values []float64) (bq, error)
 
+// batchFunc evaluates up to lanes sets of part values at once: out[i] and
+// ok[i] are what an evalFunc gives for values[i] (ok: no error), bit for
+// bit. Each worker owns its own; it must not allocate.
+type batchFunc func(values [][]float64, out []bq, ok []bool)
+
+// lanes is the number of trials a worker evaluates side by side.
+const lanes = 4
+
+// noBatch makes workers evaluate trials one by one even where a batch
+// evaluator exists (a test switch: the results must not change).
+var noBatch bool
+
 // mcStage is one stage of a Monte Carlo run: nominal part values, their
-// tolerances (fractions) and a factory of worker-owned evaluators.
+// tolerances (fractions) and a factory of worker-owned evaluators: newPair,
+// when not nil, gives an evaluator and a batch evaluator sharing one
+// workspace; else newEval's evaluates the trials one by one.
 type mcStage struct {
 	nominal []float64
 	tol     []float64
 	newEval func() evalFunc
+	newPair func() (evalFunc, batchFunc)
 }
 
 // mcPlan is everything a run needs, precomputed: stages, ω² per frequency,
@@ -106,15 +121,41 @@ func (p *mcPlan) run() mcOut {
 
 // work runs blocks until none is left and returns its pass and fail
 // counts. Everything it allocates, it allocates before the first trial.
+//
+// Within a block, trials go in groups of lanes: the group's part values are
+// drawn (each trial from its own stream, as one trial alone would), every
+// stage is evaluated for the whole group at once (batchFunc), then each
+// trial's gains are computed and reduced in trial order, so the results are
+// those of evaluating the trials one by one.
 func (p *mcPlan) work(next *atomic.Int64, nblocks int, db []float64, blocks []blockStats) (passed, failed int) {
 	nf := len(p.w2)
+	ns := len(p.stages)
 	st := newStream()
-	evals := make([]evalFunc, len(p.stages))
-	vals := make([][]float64, len(p.stages))
-	for s, stg := range p.stages {
-		evals[s] = stg.newEval()
-		vals[s] = padded(len(stg.nominal))
+	evals := make([]evalFunc, ns)
+	batches := make([]batchFunc, ns)
+	var vals [lanes][][]float64 // vals[l][s]: trial l's values of stage s
+	for l := range vals {
+		vals[l] = make([][]float64, ns)
 	}
+	for s, stg := range p.stages {
+		if stg.newPair != nil {
+			evals[s], batches[s] = stg.newPair()
+			if noBatch {
+				batches[s] = nil
+			}
+		} else {
+			evals[s] = stg.newEval()
+		}
+		for l := range vals {
+			vals[l][s] = padded(len(stg.nominal))
+		}
+	}
+	coef := make([][lanes]bq, ns)
+	var ok [lanes]bool
+	var sub [lanes][]float64 // the values of one stage for the lanes to evaluate
+	var subOut [lanes]bq
+	var subOK [lanes]bool
+	var subIdx [lanes]int
 	num := padded(nf)
 	den := padded(nf)
 	row := padded(nf)
@@ -128,67 +169,89 @@ func (p *mcPlan) work(next *atomic.Int64, nblocks int, db []float64, blocks []bl
 		if p.moments {
 			bs = &blocks[b]
 		}
-		for i := b * blockSize; i < min((b+1)*blockSize, p.trials); i++ {
-			ok := p.trial(st, uint64(i), evals, vals, num, den)
-			if !ok {
-				failed++
-				if db != nil {
-					for j := range nf {
-						db[i*nf+j] = math.NaN()
+		end := min((b+1)*blockSize, p.trials)
+		for g := b * blockSize; g < end; g += lanes {
+			n := min(lanes, end-g)
+			for l := range n {
+				ok[l] = p.draw(st, uint64(g+l), vals[l])
+			}
+			for s := range ns {
+				k := 0
+				for l := range n {
+					if ok[l] {
+						sub[k], subIdx[k] = vals[l][s], l
+						k++
 					}
 				}
-				continue
-			}
-			pass := true
-			for _, j := range p.checked {
-				// lo <= num/den <= hi without dividing (den > 0).
-				if !(num[j] >= p.loP[j]*den[j] && num[j] <= p.hiP[j]*den[j]) {
-					pass = false
+				if k == 0 {
 					break
 				}
+				if batches[s] != nil {
+					batches[s](sub[:k], subOut[:k], subOK[:k])
+				} else {
+					for j := range k {
+						c, err := evals[s](sub[j])
+						subOut[j], subOK[j] = c, err == nil
+					}
+				}
+				for j := range k {
+					l := subIdx[j]
+					coef[s][l] = subOut[j]
+					ok[l] = subOK[j]
+					sub[j] = nil
+				}
 			}
-			if pass {
-				passed++
-			}
-			if !needDB {
-				continue
-			}
-			for j := range row {
-				row[j] = 10 * math.Log10(num[j]/den[j])
-			}
-			if db != nil {
-				copy(db[i*nf:(i+1)*nf], row)
-			}
-			if bs != nil {
-				// Welford's update (Knuth, TAOCP vol. 2, 4.2.2, from memory).
-				bs.n++
-				inv := 1 / float64(bs.n)
-				for j, x := range row {
-					d := x - bs.mean[j]
-					bs.mean[j] += d * inv
-					bs.m2[j] += d * (x - bs.mean[j])
+			for l := range n {
+				i := g + l
+				if !ok[l] {
+					failed++
+					if db != nil {
+						for j := range nf {
+							db[i*nf+j] = math.NaN()
+						}
+					}
+					continue
+				}
+				p.gains(coef, l, evals, vals[l], num, den)
+				pass := true
+				for _, j := range p.checked {
+					// lo <= num/den <= hi without dividing (den > 0).
+					if !(num[j] >= p.loP[j]*den[j] && num[j] <= p.hiP[j]*den[j]) {
+						pass = false
+						break
+					}
+				}
+				if pass {
+					passed++
+				}
+				if !needDB {
+					continue
+				}
+				for j := range row {
+					row[j] = 10 * math.Log10(num[j]/den[j])
+				}
+				if db != nil {
+					copy(db[i*nf:(i+1)*nf], row)
+				}
+				if bs != nil {
+					// Welford's update (Knuth, TAOCP vol. 2, 4.2.2, from memory).
+					bs.n++
+					inv := 1 / float64(bs.n)
+					for j, x := range row {
+						d := x - bs.mean[j]
+						bs.mean[j] += d * inv
+						bs.m2[j] += d * (x - bs.mean[j])
+					}
 				}
 			}
 		}
 	}
 }
 
-// trial draws trial i's part values, evaluates every stage and leaves
-// |H(jω)|² of the chain in num/den (numerator and denominator products over
-// the stages, both positive, divided only where needed). It reports false
-// when a drawn value is not positive or a stage cannot be evaluated.
-//
-// Each stage's coefficients are scaled by 1/d0 first (the same factor top
-// and bottom, so |H|² is unchanged), which keeps the products near 1 at low
-// frequencies; where a product still leaves the normal range (many stages
-// far from their f0), that frequency is recomputed stage by stage with a
-// division each.
-func (p *mcPlan) trial(st stream, i uint64, evals []evalFunc, vals [][]float64, num, den []float64) bool {
+// draw draws trial i's part values into vals (per stage) and reports false
+// when one is not positive (it stops drawing there).
+func (p *mcPlan) draw(st stream, i uint64, vals [][]float64) bool {
 	st.reset(p.seed, i)
-	for j := range num {
-		num[j], den[j] = 1, 1
-	}
-	var pend bq // a stage waiting for its partner: stages are applied in pairs
 	for s, stg := range p.stages {
 		v := vals[s]
 		for k, x := range stg.nominal {
@@ -203,11 +266,26 @@ func (p *mcPlan) trial(st stream, i uint64, evals []evalFunc, vals [][]float64, 
 				return false
 			}
 		}
-		c, err := evals[s](v)
-		if err != nil {
-			return false
-		}
-		c = c.scaled()
+	}
+	return true
+}
+
+// gains leaves |H(jω)|² of the chain of lane l's coefficients coef[s][l]
+// in num/den (numerator and denominator products over the stages, both
+// positive, divided only where needed); vals are the trial's part values.
+//
+// Each stage's coefficients are scaled by 1/d0 first (the same factor top
+// and bottom, so |H|² is unchanged), which keeps the products near 1 at low
+// frequencies; where a product still leaves the normal range (many stages
+// far from their f0), that frequency is recomputed stage by stage with a
+// division each.
+func (p *mcPlan) gains(coef [][lanes]bq, l int, evals []evalFunc, vals [][]float64, num, den []float64) {
+	for j := range num {
+		num[j], den[j] = 1, 1
+	}
+	var pend bq // a stage waiting for its partner: stages are applied in pairs
+	for s := range p.stages {
+		c := coef[s][l].scaled()
 		if s%2 == 0 {
 			pend = c
 			continue
@@ -222,7 +300,6 @@ func (p *mcPlan) trial(st stream, i uint64, evals []evalFunc, vals [][]float64, 
 			p.slowPower(evals, vals, j, num, den)
 		}
 	}
-	return true
 }
 
 // mulPair multiplies num and den by |numerator|² and |denominator|² of two

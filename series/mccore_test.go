@@ -4,6 +4,8 @@ import (
 	"math"
 	"testing"
 
+	"github.com/google/go-cmp/cmp"
+
 	"gonum.org/v1/gonum/integrate/quad"
 )
 
@@ -137,5 +139,36 @@ func TestCoreProductsLeaveRange(t *testing.T) {
 		if math.Abs(out.mean[j]-want) > 1e-9*math.Max(1, math.Abs(want)) {
 			t.Errorf("f[%d]: %v dB, want %v dB", j, out.mean[j], want)
 		}
+	}
+}
+
+// TestBatchedTrialsEqualOneByOne: a Monte Carlo plan whose stages evaluate
+// the trials in batches (topology's EvalBatch) gives the same bits as the
+// same plan evaluating them one by one.
+func TestBatchedTrialsEqualOneByOne(t *testing.T) {
+	ch := antiAlias(t)
+	// Resistors within ±95 % (3σ): some trials draw a negative value and
+	// fail, so groups of trials with gaps are evaluated too.
+	a := Analysis{Trials: 1003, Seed: 3, Hz: logGrid(1e3, 60e3, 9), Moments: true, Percentiles: []float64{10, 90},
+		Tolerances: Tolerances{Resistor: 0.95, Capacitor: 0.4}, Dist: Normal, Workers: 2}
+	batched, err := a.MonteCarlo(ch)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The same plan with newPair removed.
+	saved := noBatch
+	noBatch = true
+	defer func() { noBatch = saved }()
+	single, err := a.MonteCarlo(ch)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if batched.Failed == 0 || batched.Failed == batched.Trials {
+		t.Fatalf("%d of %d trials failed: the test needs some of each", batched.Failed, batched.Trials)
+	}
+	if diff := cmp.Diff(single, batched, cmp.Comparer(func(x, y float64) bool {
+		return math.Float64bits(x) == math.Float64bits(y)
+	})); diff != "" {
+		t.Fatalf("batched differs from one by one (-single +batched):\n%s", diff)
 	}
 }

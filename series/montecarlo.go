@@ -163,15 +163,17 @@ func (m Analysis) MonteCarlo(chain topology.Chain) (Spread, error) {
 	n := 0
 	var nominal []bq // each stage's coefficients at its nominal values
 	for _, c := range chain.Circuits {
-		if _, err := newStageEval(c); err != nil {
+		check, err := newStageEval(c)
+		if err != nil {
 			return Spread{}, err
 		}
-		st := mcStage{newEval: func() evalFunc {
-			ev, err := newStageEval(c) // succeeded once above, so it does again
+		st := mcStage{newPair: func() (evalFunc, batchFunc) {
+			one, batch, err := newStageEvals(c) // succeeded once above, so it does again
 			if err != nil {
-				return func([]float64) (bq, error) { return bq{}, err }
+				return func([]float64) (bq, error) { return bq{}, err },
+					func(_ [][]float64, _ []bq, ok []bool) { clear(ok) }
 			}
-			return ev
+			return one, batch
 		}}
 		for _, part := range c.Parts {
 			it := items[n]
@@ -184,7 +186,7 @@ func (m Analysis) MonteCarlo(chain topology.Chain) (Spread, error) {
 			st.tol = append(st.tol, it.Tolerance)
 		}
 		// Check once that the circuit evaluates at its nominal values.
-		b, err := st.newEval()(st.nominal)
+		b, err := check(st.nominal)
 		if err != nil {
 			return Spread{}, fmt.Errorf("series: Monte Carlo: %w", err)
 		}

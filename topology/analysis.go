@@ -282,6 +282,12 @@ type Evaluator struct {
 	d     *design
 	stage filter.Stage
 	w     *mna.FixedInterpolator
+	// EvalBatch's storage.
+	lv         [mna.Lanes][]float64
+	ln, ld     [mna.Lanes][]float64
+	lerr       [mna.Lanes]error
+	lidx       [mna.Lanes]int
+	lnum, lden [mna.Lanes][mna.MaxDim + 1]float64
 }
 
 // NewEvaluator returns an Evaluator for c's template. The sampling radius
@@ -304,7 +310,11 @@ func (c Circuit) NewEvaluator() (*Evaluator, error) {
 	if err != nil {
 		return nil, fmt.Errorf("topology: %w", err) // a template passes Check: not reached
 	}
-	return &Evaluator{d: d, stage: c.Stage, w: w}, nil
+	e := &Evaluator{d: d, stage: c.Stage, w: w}
+	for l := range mna.Lanes {
+		e.ln[l], e.ld[l] = e.lnum[l][:d.ncoef], e.lden[l][:d.ncoef]
+	}
+	return e, nil
 }
 
 // Parts returns the number of part values Eval expects.
@@ -313,18 +323,62 @@ func (e *Evaluator) Parts() int { return len(e.d.refs) }
 // Eval returns the transfer function with the given part values (Parts
 // order), as Circuit.BiquadOf. Errors wrap ErrParts.
 func (e *Evaluator) Eval(values []float64) (Biquad, error) {
-	if len(values) != len(e.d.refs) {
-		return Biquad{}, errValueCount
-	}
-	for _, x := range values {
-		if !(x > 0) || math.IsInf(x, 0) {
-			return Biquad{}, errValueBad
-		}
+	if err := e.check(values); err != nil {
+		return Biquad{}, err
 	}
 	var num, den [mna.MaxDim + 1]float64
 	m := e.d.ncoef
 	err := e.w.Coefficients(values, num[:m], den[:m])
 	return biquadFrom(err, &num, &den, m)
+}
+
+// EvalBatch sets dst[i], errs[i] = e.Eval(values[i]) for every i, with
+// the same results bit for bit, evaluating the sets a few at a time side by
+// side (the nodal eliminations of different sets overlap in the processor;
+// faster than one Eval after another). dst and errs must be at least as
+// long as values; EvalBatch panics otherwise. It allocates its working
+// storage on its first call only.
+func (e *Evaluator) EvalBatch(dst []Biquad, errs []error, values [][]float64) {
+	if len(dst) < len(values) || len(errs) < len(values) {
+		panic("topology: EvalBatch: dst or errs shorter than values")
+	}
+	n := 0
+	flush := func() {
+		e.w.CoefficientsLanes(e.lv[:n], e.ln[:n], e.ld[:n], e.lerr[:n])
+		for l := range n {
+			i := e.lidx[l]
+			dst[i], errs[i] = biquadFrom(e.lerr[l], &e.lnum[l], &e.lden[l], e.d.ncoef)
+			e.lv[l] = nil
+		}
+		n = 0
+	}
+	for i, v := range values {
+		if err := e.check(v); err != nil {
+			dst[i], errs[i] = Biquad{}, err
+			continue
+		}
+		e.lv[n], e.lidx[n] = v, i
+		n++
+		if n == mna.Lanes {
+			flush()
+		}
+	}
+	if n > 0 {
+		flush()
+	}
+}
+
+// check is Eval's check of the values.
+func (e *Evaluator) check(values []float64) error {
+	if len(values) != len(e.d.refs) {
+		return errValueCount
+	}
+	for _, x := range values {
+		if !(x > 0) || math.IsInf(x, 0) {
+			return errValueBad
+		}
+	}
+	return nil
 }
 
 // Achieved returns the stage realized with the given values, as

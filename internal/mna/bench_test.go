@@ -63,4 +63,24 @@ func BenchmarkFixedInterpolator(b *testing.B) {
 			_ = f.Coefficients(vals, num, den)
 		}
 	})
+	b.Run("lanes", func(b *testing.B) {
+		f, err := NewFixedInterpolator(&mfbBandpass, vals, Amp{}, r, 3)
+		if err != nil {
+			b.Fatal(err)
+		}
+		lv := make([][]float64, Lanes)
+		for l := range lv {
+			lv[l] = vals
+		}
+		var ln, ld [Lanes][]float64
+		for l := range ln {
+			ln[l], ld[l] = make([]float64, 3), make([]float64, 3)
+		}
+		var lerr [Lanes]error
+		b.ReportAllocs()
+		for b.Loop() {
+			f.CoefficientsLanes(lv, ln[:], ld[:], lerr[:])
+		}
+		b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/Lanes, "ns/set")
+	})
 }

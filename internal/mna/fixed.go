@@ -57,19 +57,20 @@ type FixedInterpolator struct {
 	vp  [MaxDim + 1]int
 
 	// Working storage.
-	gen  Interpolator // the general path
-	y    [maxElements]float64
-	yc   [maxElements + nConst]complex128
-	yr   [maxElements + nConst]float64
-	mc   [MaxDim * MaxDim]complex128
-	bc   [MaxDim]complex128
-	ic   [MaxDim]complex128
-	mr   [MaxDim * MaxDim]float64
-	br   [MaxDim]float64
-	irr  [MaxDim]float64
-	rn   [MaxDim + 1]float64
-	rd   [MaxDim + 1]float64
-	last int // 1 when the last call took the general path (tests)
+	gen   Interpolator // the general path
+	y     [maxElements]float64
+	yc    [maxElements + nConst]complex128
+	yr    [maxElements + nConst]float64
+	mc    [MaxDim * MaxDim]complex128
+	bc    [MaxDim]complex128
+	ic    [MaxDim]complex128
+	mr    [MaxDim * MaxDim]float64
+	br    [MaxDim]float64
+	irr   [MaxDim]float64
+	rn    [MaxDim + 1]float64
+	rd    [MaxDim + 1]float64
+	last  int        // 1 when the last call took the general path (tests)
+	lanes *laneStore // allocated by the first CoefficientsLanes
 }
 
 // maxElements bounds the elements of a netlist a FixedInterpolator replays

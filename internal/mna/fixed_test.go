@@ -157,6 +157,34 @@ func TestFixedInterpolatorBitIdentical(t *testing.T) {
 			if err1 == nil && (!sameBits(n1, n2) || !sameBits(d1, d2)) {
 				t.Fatalf("trial %d, fast path %v: num %v den %v, general %v %v", trial, f.last == 0, n1, d1, n2, d2)
 			}
+			// The same sets through CoefficientsLanes, with sets drawn
+			// around this one (different spreads: lanes that take the
+			// general path beside lanes that do not).
+			nl := rapid.IntRange(1, Lanes).Draw(t, "lanes")
+			lv := make([][]float64, nl)
+			ln, ld := make([][]float64, nl), make([][]float64, nl)
+			lerr := make([]error, nl)
+			for l := range lv {
+				lv[l] = append([]float64(nil), v...)
+				if l > 0 {
+					sp := rapid.SampledFrom([]float64{0, 0.01, 1, 3}).Draw(t, "laneSpread")
+					for i, x := range ref {
+						lv[l][i] = x * math.Exp(sp*rapid.Float64Range(-1, 1).Draw(t, "lu"))
+					}
+				}
+				ln[l], ld[l] = make([]float64, m), make([]float64, m)
+			}
+			f.CoefficientsLanes(lv, ln, ld, lerr)
+			for l := range lv {
+				e2 := g.Coefficients(&net, lv[l], amp, radius, n2, d2)
+				if (lerr[l] == nil) != (e2 == nil) || e2 != nil && lerr[l].Error() != e2.Error() {
+					t.Fatalf("trial %d lane %d: errors %v and %v", trial, l, lerr[l], e2)
+				}
+				if e2 == nil && (!sameBits(ln[l], n2) || !sameBits(ld[l], d2)) {
+					t.Fatalf("trial %d lane %d: num %v den %v, general %v %v", trial, l, ln[l], ld[l], n2, d2)
+				}
+			}
+			g.Coefficients(&net, v, amp, radius, n2, d2)
 			if spread <= 0.01 && err2 == nil && net.Elements[0].Kind == Resistor && len(net.Elements) >= 2 && err1 == nil {
 				near++
 				if f.last == 0 {
@@ -223,7 +251,12 @@ func TestFixedInterpolatorAllocs(t *testing.T) {
 		t.Fatal(err)
 	}
 	num, den := make([]float64, 3), make([]float64, 3)
+	lv := [][]float64{vals, vals, vals}
+	ln := [][]float64{make([]float64, 3), make([]float64, 3), make([]float64, 3)}
+	ld := [][]float64{make([]float64, 3), make([]float64, 3), make([]float64, 3)}
+	lerr := make([]error, 3)
 	allocs := testing.AllocsPerRun(100, func() {
+		f.CoefficientsLanes(lv, ln, ld, lerr)
 		_ = f.Coefficients(vals, num, den)
 	})
 	if allocs != 0 || f.last != 0 {
