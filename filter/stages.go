@@ -593,9 +593,7 @@ func cascadePeaks(stages []Stage, h Transfer) []float64 {
 		row := run[k*np : (k+1)*np]
 		bk := 0.0
 		for _, v := range row {
-			if v > bk {
-				bk = v
-			}
+			bk = max(bk, v) // NaN, which the forms do not give, would end in ErrRange
 		}
 		lo := 0
 		found = found[:0]
