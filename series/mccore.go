@@ -280,20 +280,28 @@ func (p *mcPlan) draw(st stream, i uint64, vals [][]float64) bool {
 // far from their f0), that frequency is recomputed stage by stage with a
 // division each.
 func (p *mcPlan) gains(coef [][lanes]bq, l int, evals []evalFunc, vals [][]float64, num, den []float64) {
-	for j := range num {
-		num[j], den[j] = 1, 1
-	}
-	var pend bq // a stage waiting for its partner: stages are applied in pairs
-	for s := range p.stages {
-		c := coef[s][l].scaled()
-		if s%2 == 0 {
-			pend = c
-			continue
+	// The products are those of starting from 1 and multiplying in each
+	// pair of stages, (((1·P01)·P23)·P45)…, with 1·P = P exactly: the first
+	// four (or two) stages are set in one pass.
+	ns := len(p.stages)
+	s := 0
+	switch {
+	case ns >= 4:
+		setQuad(coef[0][l].scaled(), coef[1][l].scaled(), coef[2][l].scaled(), coef[3][l].scaled(), p.w2, num, den)
+		s = 4
+	case ns >= 2:
+		setPair(coef[0][l].scaled(), coef[1][l].scaled(), p.w2, num, den)
+		s = 2
+	default:
+		for j := range num {
+			num[j], den[j] = 1, 1
 		}
-		mulPair(pend, c, p.w2, num, den)
 	}
-	if len(p.stages)%2 == 1 {
-		mulPair(pend, bq{n0: 1, d0: 1}, p.w2, num, den)
+	for ; s+1 < ns; s += 2 {
+		mulPair(coef[s][l].scaled(), coef[s+1][l].scaled(), p.w2, num, den)
+	}
+	if s < ns {
+		mulPair(coef[s][l].scaled(), bq{n0: 1, d0: 1}, p.w2, num, den)
 	}
 	for j := range num {
 		if !(den[j] >= minNormal && den[j] <= math.MaxFloat64 && num[j] <= math.MaxFloat64) {
@@ -317,6 +325,46 @@ func mulPair(a, b bq, w2, num, den []float64) {
 		bs := b.d0 - b.d2*x
 		num[j] *= (ar*ar + an1*x) * (br*br + bn1*x)
 		den[j] *= (as*as + ad1*x) * (bs*bs + bd1*x)
+	}
+}
+
+// setPair sets num and den to the products of mulPair(a, b) applied to
+// ones.
+func setPair(a, b bq, w2, num, den []float64) {
+	an1, ad1 := a.n1*a.n1, a.d1*a.d1
+	bn1, bd1 := b.n1*b.n1, b.d1*b.d1
+	num = num[:len(w2)]
+	den = den[:len(w2)]
+	for j, x := range w2 {
+		ar := a.n0 - a.n2*x
+		br := b.n0 - b.n2*x
+		as := a.d0 - a.d2*x
+		bs := b.d0 - b.d2*x
+		num[j] = (ar*ar + an1*x) * (br*br + bn1*x)
+		den[j] = (as*as + ad1*x) * (bs*bs + bd1*x)
+	}
+}
+
+// setQuad sets num and den to the products of setPair(a, b) followed by
+// mulPair(c, d), in one pass.
+func setQuad(a, b, c, d bq, w2, num, den []float64) {
+	an1, ad1 := a.n1*a.n1, a.d1*a.d1
+	bn1, bd1 := b.n1*b.n1, b.d1*b.d1
+	cn1, cd1 := c.n1*c.n1, c.d1*c.d1
+	dn1, dd1 := d.n1*d.n1, d.d1*d.d1
+	num = num[:len(w2)]
+	den = den[:len(w2)]
+	for j, x := range w2 {
+		ar := a.n0 - a.n2*x
+		br := b.n0 - b.n2*x
+		cr := c.n0 - c.n2*x
+		dr := d.n0 - d.n2*x
+		as := a.d0 - a.d2*x
+		bs := b.d0 - b.d2*x
+		cs := c.d0 - c.d2*x
+		ds := d.d0 - d.d2*x
+		num[j] = ((ar*ar + an1*x) * (br*br + bn1*x)) * ((cr*cr + cn1*x) * (dr*dr + dn1*x))
+		den[j] = ((as*as + ad1*x) * (bs*bs + bd1*x)) * ((cs*cs + cd1*x) * (ds*ds + dd1*x))
 	}
 }
 
