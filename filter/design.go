@@ -105,13 +105,13 @@ func (r resolved) lowpass(sel float64, n int) (Transfer, error) {
 		eps := math.Sqrt(dbPowM1(r.rp))
 		return h.scale(math.Pow(eps, -1/float64(n)))
 	case kindInverseChebyshev:
-		h, err := r.fam.Prototype(n)
+		h, err := r.icheb.Prototype(n)
 		if err != nil {
 			return Transfer{}, err
 		}
 		return h.scale(sel)
 	case kindElliptic:
-		fam := r.fam.(Elliptic)
+		fam := r.ell
 		if r.freeAtt {
 			// The slack raises the attenuation to what order n reaches at
 			// the stopband edge sel: the degree equation solved for the
@@ -141,7 +141,7 @@ func (r resolved) lowpass(sel float64, n int) (Transfer, error) {
 	case kindGeneric: // a family from outside: edge at 1 rad/s as given
 		return outsidePrototype(r.fam, n)
 	default: // Chebyshev: edge at 1 rad/s as given
-		return r.fam.Prototype(n)
+		return r.cheb.Prototype(n)
 	}
 }
 
@@ -153,6 +153,14 @@ func (r resolved) design(s Spec, pl bandPlan, n int) (Transfer, error) {
 	}
 	switch pl.band {
 	case Lowpass:
+		if r.kind != kindGeneric {
+			// This package's prototypes are built afresh for each call (an
+			// outside family's may be shared): scale them where they lie.
+			if err := checkFreq("cornerHz", pl.edgeHz); err != nil {
+				return Transfer{}, err
+			}
+			return lp.scaleOwned(2 * math.Pi * pl.edgeHz)
+		}
 		return lp.ToLowpass(pl.edgeHz)
 	case Highpass:
 		return lp.ToHighpass(pl.edgeHz)

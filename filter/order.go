@@ -50,8 +50,13 @@ const (
 
 // resolved is a family with its parameters settled against a spec.
 type resolved struct {
-	kind     familyKind
-	fam      Family  // the family to call Prototype on (parameters filled in)
+	kind familyKind
+	fam  Family // the family as given (for messages; Prototype of outside families)
+	// The package's parametrized families with their parameters settled,
+	// held unboxed (a design does not allocate for them).
+	cheb     Chebyshev
+	icheb    InverseChebyshev
+	ell      Elliptic
 	rp, as   float64 // passband ripple and stopband attenuation designed for, dB
 	freeAtt  bool    // elliptic: the attenuation was taken from the spec (slack may raise it)
 	maxOrder int     // highest order the family supports, 0 if unknown
@@ -111,13 +116,13 @@ func resolve(f Family, s Spec) (resolved, error) {
 		if r.rp, err = familyParam("Chebyshev", "RippleDB", v.RippleDB, s.RippleDB, true); err != nil {
 			return r, err
 		}
-		r.fam = Chebyshev{RippleDB: r.rp}
+		r.fam, r.cheb = f, Chebyshev{RippleDB: r.rp}
 	case InverseChebyshev:
 		r.kind = kindInverseChebyshev
 		if r.as, err = familyParam("InverseChebyshev", "AttenDB", v.AttenDB, s.AttenDB, false); err != nil {
 			return r, err
 		}
-		r.fam = InverseChebyshev{AttenDB: r.as}
+		r.fam, r.icheb = f, InverseChebyshev{AttenDB: r.as}
 	case Elliptic:
 		r.kind = kindElliptic
 		if r.rp, err = familyParam("Elliptic", "RippleDB", v.RippleDB, s.RippleDB, true); err != nil {
@@ -130,7 +135,7 @@ func resolve(f Family, s Spec) (resolved, error) {
 			return r, fmt.Errorf("filter: Elliptic RippleDB %g not below AttenDB %g: %w", r.rp, r.as, ErrParam)
 		}
 		r.freeAtt = v.AttenDB == 0
-		r.fam = Elliptic{RippleDB: r.rp, AttenDB: r.as}
+		r.fam, r.ell = f, Elliptic{RippleDB: r.rp, AttenDB: r.as}
 	case Bessel:
 		if v.Norm < BesselCorner || v.Norm > BesselPhase {
 			return r, fmt.Errorf("filter: Bessel Norm %d unknown: %w", int(v.Norm), ErrParam)

@@ -148,24 +148,37 @@ func (h Transfer) checkRoots() error {
 	return nil
 }
 
-// checkMapped reports a mapped root that overflowed. When in (the poles
-// before the transform) is given and lies wholly in the open left
-// half-plane, it also reports a mapped pole whose real part underflowed
-// below the normal float64 range (a corner near 5e-324 Hz leaves a pole
-// at −0 + jω, on the axis: a silently unstable result).
-func checkMapped(what string, rs, in []complex128) error {
+// inLHP reports whether the poles in (non-nil) lie wholly in the open left
+// half-plane: then a transform's mapped pole whose real part underflowed
+// is an error (see checkMapped).
+func inLHP(in []complex128) bool {
+	if in == nil {
+		return false
+	}
+	for _, p := range in {
+		if !(real(p) < 0) {
+			return false
+		}
+	}
+	return true
+}
+
+// checkMapped reports a mapped root that overflowed. When lhp (the poles
+// before the transform lay wholly in the open left half-plane, inLHP), it
+// also reports a mapped root whose real part underflowed below the
+// normal float64 range (a corner near 5e-324 Hz leaves a pole at −0 + jω,
+// on the axis: a silently unstable result).
+func checkMapped(what string, rs []complex128, lhp bool) error {
 	for i, r := range rs {
 		if !finiteC(r) {
 			return fmt.Errorf("filter: transformed %s[%d] not finite: %w", what, i, ErrRange)
 		}
 	}
-	for _, p := range in {
-		if !(real(p) < 0) {
-			return nil
-		}
+	if !lhp {
+		return nil
 	}
 	for i, r := range rs {
-		if in != nil && !(real(r) <= -0x1p-1022) {
+		if !(real(r) <= -0x1p-1022) {
 			return fmt.Errorf("filter: transformed %s[%d] = %v: real part underflows float64: %w", what, i, r, ErrRange)
 		}
 	}
@@ -191,7 +204,23 @@ func (h Transfer) scale(w float64) (Transfer, error) {
 	if err := h.checkRoots(); err != nil {
 		return Transfer{}, err
 	}
-	out := Transfer{Zeros: make([]complex128, len(h.Zeros)), Poles: make([]complex128, len(h.Poles))}
+	return h.scaleInto(w, Transfer{Zeros: make([]complex128, len(h.Zeros)), Poles: make([]complex128, len(h.Poles))}, inLHP(h.Poles))
+}
+
+// scaleOwned is scale writing over h's own pole and zero slices, for a
+// transfer function nobody else holds (a prototype just built).
+func (h Transfer) scaleOwned(w float64) (Transfer, error) {
+	if err := h.checkRoots(); err != nil {
+		return Transfer{}, err
+	}
+	// Whether the poles were in the left half-plane is read before they
+	// are overwritten (an underflowed real part is reported against it).
+	return h.scaleInto(w, Transfer{Zeros: h.Zeros, Poles: h.Poles}, inLHP(h.Poles))
+}
+
+// scaleInto is scale with out's slices (of h's lengths) for the result;
+// lhp is inLHP(h.Poles).
+func (h Transfer) scaleInto(w float64, out Transfer, lhp bool) (Transfer, error) {
 	cw := complex(w, 0)
 	for i, z := range h.Zeros {
 		out.Zeros[i] = z * cw
@@ -207,7 +236,7 @@ func (h Transfer) scale(w float64) (Transfer, error) {
 	for ; d < 0; d++ {
 		g = g.div(cw)
 	}
-	return finish(out, g, h, "lowpass")
+	return finish(out, g, lhp, "lowpass")
 }
 
 // ToHighpass returns the highpass filter whose response at cornerHz equals
@@ -259,7 +288,7 @@ func (h Transfer) ToHighpass(cornerHz float64) (Transfer, error) {
 		poles = append(poles, 0)
 	}
 	out := Transfer{Zeros: keepPairOrder(zeros), Poles: keepPairOrder(poles)}
-	return finish(out, g, h, "highpass")
+	return finish(out, g, inLHP(h.Poles), "highpass")
 }
 
 // keepPairOrder swaps the members of each adjacent exact conjugate pair of
@@ -369,7 +398,7 @@ func (h Transfer) ToBandpass(centerHz, widthHz float64) (Transfer, error) {
 		poles = append(poles, 0)
 	}
 	out := Transfer{Zeros: zeros, Poles: poles}
-	return finish(out, g, h, "bandpass")
+	return finish(out, g, inLHP(h.Poles), "bandpass")
 }
 
 // ToBandstop returns the bandstop filter whose passband edges are where the
@@ -435,21 +464,22 @@ func (h Transfer) ToBandstop(centerHz, widthHz float64) (Transfer, error) {
 		poles = append(poles, jw, -jw)
 	}
 	out := Transfer{Zeros: zeros, Poles: poles}
-	return finish(out, g, h, "bandstop")
+	return finish(out, g, inLHP(h.Poles), "bandstop")
 }
 
 // finish gives out its gain g (what names the transform in an error) and
-// checks that the mapped poles and zeros of the input h stayed finite and
-// the poles strictly in the left half-plane, then compacts out.
-func finish(out Transfer, g scaled, h Transfer, what string) (Transfer, error) {
+// checks that the mapped poles and zeros stayed finite and, when the
+// input's poles lay in the open left half-plane (lhp, inLHP), that the
+// mapped poles did too, then compacts out.
+func finish(out Transfer, g scaled, lhp bool, what string) (Transfer, error) {
 	var err error
 	if out.Gain, err = g.realOf(what, " gain"); err != nil {
 		return Transfer{}, err
 	}
-	if err := checkMapped("poles", out.Poles, h.Poles); err != nil {
+	if err := checkMapped("poles", out.Poles, lhp); err != nil {
 		return Transfer{}, err
 	}
-	if err := checkMapped("zeros", out.Zeros, nil); err != nil {
+	if err := checkMapped("zeros", out.Zeros, false); err != nil {
 		return Transfer{}, err
 	}
 	return out.compact(), nil
