@@ -591,17 +591,27 @@ func cascadePeaks(stages []Stage, h Transfer) []float64 {
 			return v
 		}
 		row := run[k*np : (k+1)*np]
-		bk := 0.0
-		for _, v := range row {
-			bk = max(bk, v) // NaN, which the forms do not give, would end in ErrRange
+		// Four running maxima (independent chains, the builtin max keeping a
+		// NaN, which the forms do not give, to end in ErrRange).
+		var m4 [4]float64
+		j := 0
+		for ; j+4 <= np; j += 4 {
+			m4[0], m4[1] = max(m4[0], row[j]), max(m4[1], row[j+1])
+			m4[2], m4[3] = max(m4[2], row[j+2]), max(m4[3], row[j+3])
 		}
+		for ; j < np; j++ {
+			m4[0] = max(m4[0], row[j])
+		}
+		bk := max(m4[0], m4[1], m4[2], m4[3])
 		lo := 0
 		found = found[:0]
 		for _, hi := range segs {
 		next:
 			for j := lo + 1; j < hi-1; j++ {
+				// A local maximum within a factor 4 of the best: one
+				// comparison, rarely true, instead of three branches.
 				v := row[j]
-				if v < bk/4 || row[j-1] > v || row[j+1] > v {
+				if v < max(bk/4, row[j-1], row[j+1]) {
 					continue
 				}
 				// A bracket holding a maximum already refined (found by
