@@ -330,9 +330,19 @@ func pointPos(g0 float64, neg bool, z, p *factorSet, w float64) (gdb, phase, del
 	return gdb, phase, delay, true
 }
 
-// atan2Finite is math.Atan2 for finite y and x, not both zero: the same
-// branches and the same result, without the tests for NaN and infinities.
+// atan2Finite is math.Atan2 for finite y and x, not both zero, to within
+// an ulp or two of it (TestAtan2Finite): the same reduction to [0, π/4]
+// octant by octant and the same rational approximation (the Cephes one
+// that Go's math package uses, S. L. Moshier, Cephes Math Library,
+// atan.c; coefficients as Go's math/atan.go gives them), but with the
+// reduced argument formed from y and x by one division, where math.Atan2
+// divides y by x and then reduces the quotient by a second division, and
+// without the tests for NaN and infinities.
 func atan2Finite(y, x float64) float64 {
+	const (
+		morebits = 6.123233995736765886130e-17 // π/2 = math.Pi/2 + morebits
+		tan3pio8 = 2.41421356237309504880      // tan(3π/8)
+	)
 	switch {
 	case y == 0:
 		if x >= 0 && !math.Signbit(x) {
@@ -342,14 +352,46 @@ func atan2Finite(y, x float64) float64 {
 	case x == 0:
 		return math.Copysign(math.Pi/2, y)
 	}
-	q := math.Atan(y / x)
-	if x < 0 {
-		if q <= 0 {
-			return q + math.Pi
+	ay, ax := math.Abs(y), math.Abs(x)
+	var q float64
+	switch {
+	case ay <= 0.66*ax:
+		q = atanKernel(ay / ax)
+	case ay > tan3pio8*ax:
+		q = math.Pi/2 - atanKernel(ax/ay) + morebits
+	default:
+		// atan(t) = π/4 + atan((t−1)/(t+1)), t = ay/ax. Here ay and ax are
+		// within a factor 2.5 of each other, so scaling both by 1/4 near
+		// the top of the range (their sum would overflow) is exact.
+		if ay > 0x1p1000 {
+			ay, ax = ay/4, ax/4
 		}
-		return q - math.Pi
+		q = math.Pi/4 + atanKernel((ay-ax)/(ay+ax)) + 0.5*morebits
 	}
-	return q
+	if x < 0 {
+		q = math.Pi - q
+	}
+	return math.Copysign(q, y)
+}
+
+// atanKernel is the rational approximation of atan on |t| ≤ 0.66 (Cephes
+// atan.c, as Go's math package has it).
+func atanKernel(t float64) float64 {
+	const (
+		p0 = -8.750608600031904122785e-01
+		p1 = -1.615753718733365076637e+01
+		p2 = -7.500855792314704667340e+01
+		p3 = -1.228866684490136173410e+02
+		p4 = -6.485021904942025371773e+01
+		q0 = +2.485846490142306297962e+01
+		q1 = +1.650270098316988542046e+02
+		q2 = +4.328810604912902668951e+02
+		q3 = +4.853903996359136964868e+02
+		q4 = +1.945506571482613964425e+02
+	)
+	z := t * t
+	z = z * ((((p0*z+p1)*z+p2)*z+p3)*z + p4) / (((((z+q0)*z+q1)*z+q2)*z+q3)*z + q4)
+	return t*z + t
 }
 
 // rescale multiplies (pr, pi), of size s = |pr| + |pi| outside
