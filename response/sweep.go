@@ -173,7 +173,14 @@ func phaseDelay(h filter.Transfer, w float64) (phase, delay float64) {
 }
 
 func gainDB(v complex128) float64 {
-	return 20 * math.Log10(cmplx.Abs(v))
+	a := cmplx.Abs(v)
+	if a > 0 && a < 0x1p-1022 {
+		// Go's math.Log10 (math.Log on amd64) is wrong for subnormal
+		// arguments (log10(5e-324) gives −307.95, not −323.31): scale into
+		// the normal range, exactly, and take the power of two back out.
+		return 20 * (math.Log10(a*0x1p64) - 64*math.Log10(2))
+	}
+	return 20 * math.Log10(a)
 }
 
 func sweepSystem(dst []Point, s System, hz []float64) {

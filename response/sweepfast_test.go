@@ -189,3 +189,17 @@ func TestAtan2Finite(t *testing.T) {
 		}
 	}
 }
+
+// TestGainDBSubnormal: a gain below the normal float64 range has its true
+// level in dB (math.Log10 alone is wrong there on amd64).
+func TestGainDBSubnormal(t *testing.T) {
+	for _, c := range []struct{ a, want float64 }{
+		{5e-324, 20 * (-323.3062153431158)}, // log10 of the least subnormal, by Python 3.11 math.log10
+		{0x1p-1030, 20 * -1030 * 0.30102999566398120},
+		{1e-310, -6200},
+	} {
+		if got := gainDB(complex(c.a, 0)); math.Abs(got-c.want) > 1e-9*math.Abs(c.want) {
+			t.Errorf("gainDB(%g) = %.12g dB, want %.12g", c.a, got, c.want)
+		}
+	}
+}
