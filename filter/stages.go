@@ -86,8 +86,10 @@ func (h Transfer) Stages() ([]Stage, error) { return h.StagesWith(StageOptions{}
 // numerically: a log grid over the span of the poles and zeros (24 points
 // a decade, two decades beyond), points at and around every resonance
 // (Im p ± k·|Re p| and the second-order peak frequencies
-// ω0·√(1 − 1/(2Q²)) and its inverse for highpass), then a golden-section
-// refinement of every leading local maximum, to about 1e-12 relative.
+// ω0·√(1 − 1/(2Q²)) and its inverse for highpass), then a refinement by
+// Brent's method of every leading local maximum, to about 1e-12 relative.
+// The cost grows about as the square of the order (every stage is
+// evaluated on a grid that grows with the number of pole pairs).
 //
 // The error wraps ErrStage for a transfer that no cascade of these stage
 // kinds represents: no poles, a zero gain, a pole not in the open left
