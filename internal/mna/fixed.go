@@ -201,26 +201,7 @@ func NewFixedInterpolator(n *Netlist, ref []float64, a Amp, radius float64, m in
 	// The interpolation matrix, as scaled builds it, and its elimination
 	// as solveReal performs it.
 	v := f.vlu[:m*m]
-	row = 0
-	for k := range m {
-		if imag(zs[k]) < 0 || row >= m {
-			continue
-		}
-		z := zs[k]
-		zp := complex(1, 0)
-		two := imag(z) > 1e-300 && row+1 < m
-		for j := range m {
-			v[row*m+j] = real(zp)
-			if two {
-				v[(row+1)*m+j] = imag(zp)
-			}
-			zp *= z
-		}
-		row++
-		if two {
-			row++
-		}
-	}
+	interpMatrix(v, zs[:], m)
 	for c := range m {
 		p, best := c, 0.0
 		for r := c; r < m; r++ {

@@ -154,6 +154,30 @@ func (w *Interpolator) scaled(n *Netlist, values []float64, a Amp, radius float6
 	// Real interpolation system V·c = p: one real row per real sample point,
 	// two (real and imaginary parts) per sample above the real axis.
 	v, rn, rd := &w.v, &w.rn, &w.rd
+	interpMatrix(v[:m*m], zs[:], m)
+	row := 0
+	for k := range m {
+		if imag(zs[k]) < 0 || row >= m {
+			continue
+		}
+		rn[row], rd[row] = real(pn[k]), real(pd[k])
+		if imag(zs[k]) > 1e-300 && row+1 < m {
+			rn[row+1], rd[row+1] = imag(pn[k]), imag(pd[k])
+			row++
+		}
+		row++
+	}
+	if err := solveReal(v[:m*m], rn[:m], rd[:m], m); err != nil {
+		return err
+	}
+	return nil
+}
+
+// interpMatrix fills the m×m real interpolation matrix v (row-major) of
+// the sample points zs: for each point with Im z ≥ 0, in order, the row of
+// the real parts of 1, z, z², …, followed, for a point above the real axis,
+// by the row of their imaginary parts, until m rows are filled.
+func interpMatrix(v []float64, zs []complex128, m int) {
 	row := 0
 	for k := range m {
 		if imag(zs[k]) < 0 || row >= m {
@@ -169,17 +193,11 @@ func (w *Interpolator) scaled(n *Netlist, values []float64, a Amp, radius float6
 			}
 			zp *= z
 		}
-		rn[row], rd[row] = real(pn[k]), real(pd[k])
+		row++
 		if two {
-			rn[row+1], rd[row+1] = imag(pn[k]), imag(pd[k])
 			row++
 		}
-		row++
 	}
-	if err := solveReal(v[:m*m], rn[:m], rd[:m], m); err != nil {
-		return err
-	}
-	return nil
 }
 
 // solveReal solves V·x = b1 and V·x = b2 in place (b1, b2 overwritten by
