@@ -450,15 +450,7 @@ func (f *FixedInterpolator) replay(values []float64) bool {
 			rd[r] -= fr * rd[c]
 		}
 	}
-	for r := m - 1; r >= 0; r-- {
-		x1, x2 := rn[r], rd[r]
-		for j := r + 1; j < m; j++ {
-			x1 -= v[r*m+j] * rn[j]
-			x2 -= v[r*m+j] * rd[j]
-		}
-		rn[r] = x1 / v[r*m+r]
-		rd[r] = x2 / v[r*m+r]
-	}
+	backSubstitute(v, rn[:], rd[:], m)
 	// A polynomial that is zero altogether keeps the signs of its zeros
 	// through finish (nothing sets them to +0), and those signs are the
 	// one thing the replay does not reproduce: leave it to the general

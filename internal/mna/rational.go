@@ -200,6 +200,20 @@ func interpMatrix(v []float64, zs []complex128, m int) {
 	}
 }
 
+// backSubstitute solves U·x = b1 and U·x = b2 in place for the upper
+// triangle U of the m×m row-major v (the last step of solveReal).
+func backSubstitute(v, b1, b2 []float64, m int) {
+	for r := m - 1; r >= 0; r-- {
+		x1, x2 := b1[r], b2[r]
+		for j := r + 1; j < m; j++ {
+			x1 -= v[r*m+j] * b1[j]
+			x2 -= v[r*m+j] * b2[j]
+		}
+		b1[r] = x1 / v[r*m+r]
+		b2[r] = x2 / v[r*m+r]
+	}
+}
+
 // solveReal solves V·x = b1 and V·x = b2 in place (b1, b2 overwritten by
 // the solutions) by Gaussian elimination with partial pivoting.
 func solveReal(v, b1, b2 []float64, m int) error {
@@ -230,15 +244,7 @@ func solveReal(v, b1, b2 []float64, m int) error {
 			b2[r] -= f * b2[c]
 		}
 	}
-	for r := m - 1; r >= 0; r-- {
-		x1, x2 := b1[r], b2[r]
-		for j := r + 1; j < m; j++ {
-			x1 -= v[r*m+j] * b1[j]
-			x2 -= v[r*m+j] * b2[j]
-		}
-		b1[r] = x1 / v[r*m+r]
-		b2[r] = x2 / v[r*m+r]
-	}
+	backSubstitute(v, b1, b2, m)
 	return nil
 }
 
