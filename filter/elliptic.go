@@ -88,7 +88,8 @@ func (e Elliptic) Prototype(n int) (Transfer, error) {
 // for k1 instead). e names the filter in error messages.
 //
 // The Jacobi functions are evaluated at the modulus k only, by one Landen
-// sequence (ellip.Landen) computed once: zero i is 1/(k·cd(uᵢK)), pole i is
+// sequence (ellip.Landen) computed once and climbed for every argument
+// together (Landen.ClimbAll): zero i is 1/(k·cd(uᵢK)), pole i is
 // j·cd((uᵢ − j·v0)K), and the cosines the climb starts from share
 // cosh(v0·π/2) and sinh(v0·π/2) (cos((u − jv)π/2) = cos(uπ/2)cosh(vπ/2) +
 // j·sin(uπ/2)sinh(vπ/2)), the cosine of the zero's argument being the real
@@ -100,23 +101,36 @@ func (e Elliptic) build(n int, ep2, k1, k1c, k, kc float64) (Transfer, error) {
 	lan := ellip.NewLanden(k, kc)
 	ch, sh := math.Cosh(v0*math.Pi/2), math.Sinh(v0*math.Pi/2)
 	m := n / 2
+	// The start cosines of every pole (the real one of an odd order last)
+	// and zero, climbed together (ClimbAll: the bits of Climb and
+	// ClimbReal one at a time). n ≤ MaxEllipticOrder bounds the counts.
+	var wsBuf [MaxEllipticOrder/2 + 1]complex128
+	var csBuf [MaxEllipticOrder / 2]float64
+	ws, cs := wsBuf[:m+n%2], csBuf[:m]
+	for i := 1; i <= m; i++ {
+		u := float64(2*i-1) / float64(n)
+		s, c := math.Sincos(u * math.Pi / 2)
+		ws[i-1] = complex(c*ch, s*sh)
+		cs[i-1] = c
+	}
+	if n%2 == 1 {
+		s, c := math.Sincos(math.Pi / 2) // u = 1
+		ws[m] = complex(c*ch, s*sh)
+	}
+	lan.ClimbAll(ws, cs)
 	// One backing array: poles first, then zeros (the zeros' capacity ends
 	// at their length, so an append to them cannot overwrite the poles).
 	buf := make([]complex128, n+2*m)
 	poles, zeros := buf[:0:n], buf[n:n:n+2*m]
-	for i := 1; i <= m; i++ {
-		u := float64(2*i-1) / float64(n)
-		s, c := math.Sincos(u * math.Pi / 2)
-		w := lan.Climb(complex(c*ch, s*sh))
+	for i := range m {
+		w := ws[i]
 		p := complex(-math.Abs(imag(w)), math.Abs(real(w))) // j·w, upper member
 		poles = append(poles, p, complex(real(p), -imag(p)))
-		z := 1 / (k * lan.ClimbReal(c))
+		z := 1 / (k * cs[i])
 		zeros = append(zeros, complex(0, z), complex(0, -z))
 	}
 	if n%2 == 1 {
-		s, c := math.Sincos(math.Pi / 2) // u = 1
-		w := lan.Climb(complex(c*ch, s*sh))
-		poles = append(poles, complex(-math.Abs(imag(w)), 0))
+		poles = append(poles, complex(-math.Abs(imag(ws[m])), 0))
 	}
 	if len(poles) > 1 {
 		// Pair 0 is nearest the jω axis (highest Q).

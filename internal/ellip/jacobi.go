@@ -160,6 +160,29 @@ func (l *Landen) Climb(w complex128) complex128 {
 	return complex(re, im)
 }
 
+// ClimbAll climbs every element of ws as Climb does and every element of
+// xs as ClimbReal does, in place, to the same bits. The arguments are
+// climbed together, one Landen step for all of them at a time, so that
+// their independent divisions overlap in the processor instead of waiting
+// on each other (the climb of one argument is a chain of dependent
+// divisions).
+func (l *Landen) ClimbAll(ws []complex128, xs []float64) {
+	for i := l.n - 1; i >= 0; i-- {
+		k := l.ks[i]
+		for j, w := range ws {
+			re, im := real(w), imag(w)
+			nr, ni := (1+k)*re, (1+k)*im
+			kr, ki := k*re, k*im
+			dr, di := 1+(kr*re-ki*im), kr*im+ki*re
+			re, im = smithDiv(nr, ni, dr, di)
+			ws[j] = complex(re, im)
+		}
+		for j, x := range xs {
+			xs[j] = (1 + k) * x / (1 + k*x*x)
+		}
+	}
+}
+
 // ClimbReal is Climb for a real argument: cd(u·K(k), k) given
 // w = cos(uπ/2), equal to real(Climb(complex(w, 0))) to the last bit.
 func (l *Landen) ClimbReal(w float64) float64 {
