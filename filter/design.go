@@ -14,16 +14,25 @@ const maxSlackAttenDB = 150
 
 // ellipticSlack returns the stopband attenuation in dB that an elliptic
 // filter of order n reaches with ripple εp² = ep2 and stopband edge sel
-// (selectivity k = 1/sel): the degree equation n·K'(k)/K(k) = K'(k1)/K(k1)
-// (DLMF 22.2, the equation of MinOrder's Elliptic order estimate) solved
-// for the discrimination k1 = εp/εs, then As = 10·log10(1 + εp²/k1²). It
-// also returns k1 and k1c = √(1−k1²); As is +Inf where k1 underflows.
-func ellipticSlack(n int, k, kc, ep2 float64) (as, k1, k1c float64) {
-	k1, k1c = ellip.ModulusFromRatio(float64(n) * ellip.PeriodRatio(k, kc))
+// (selectivity k = 1/sel, period ratio ratio = K'(k)/K(k), which the
+// caller has from the order estimate): the degree equation
+// n·K'(k)/K(k) = K'(k1)/K(k1) (DLMF 22.2, the equation of MinOrder's
+// Elliptic order estimate) solved for the discrimination k1 = εp/εs, then
+// As = 10·log10(1 + εp²/k1²). It also returns k1 and k1c = √(1−k1²); As is
+// +Inf where k1 underflows.
+func ellipticSlack(n int, ratio, ep2 float64) (as, k1, k1c float64) {
+	k1, k1c = ellip.ModulusFromRatio(float64(n) * ratio)
 	if !(k1 > 0) {
 		return math.Inf(1), k1, k1c
 	}
 	return 10 / math.Ln10 * math.Log1p(ep2/(k1*k1)), k1, k1c
+}
+
+// selModuli returns the selectivity k = 1/sel of the normalized stopband
+// edge sel > 1 and its complement kc = √(1−k²) = √((sel−1)(sel+1))/sel
+// (without cancellation).
+func selModuli(sel float64) (k, kc float64) {
+	return 1 / sel, math.Sqrt((sel-1)*(sel+1)) / sel
 }
 
 // magAt returns |H(jw)| from real arithmetic: |Gain| times the square
@@ -118,9 +127,13 @@ func (r resolved) lowpass(sel float64, n int) (Transfer, error) {
 			// discrimination k1 with the selectivity k = 1/sel known. Within
 			// the cap the prototype is built from these moduli directly
 			// (Prototype would solve the equation back for k).
-			k, kc := 1/sel, math.Sqrt((sel-1)*(sel+1))/sel
+			k, kc := selModuli(sel)
+			ratio := r.selRatio
+			if ratio == 0 { // not carried from the estimate (DesignOrder)
+				ratio = ellip.PeriodRatio(k, kc)
+			}
 			ep2 := dbPowM1(r.rp)
-			as, k1, k1c := ellipticSlack(n, k, kc, ep2)
+			as, k1, k1c := ellipticSlack(n, ratio, ep2)
 			if as <= maxSlackAttenDB && as >= fam.AttenDB && k1c > 0 && n <= MaxEllipticOrder {
 				fam.AttenDB = as
 				return fam.build(n, ep2, k1, k1c, k, kc)
@@ -171,16 +184,32 @@ func (r resolved) design(s Spec, pl bandPlan, n int) (Transfer, error) {
 	}
 }
 
-// meetGrid is the number of log-spaced points per band segment at which
-// meets reports whether the design h of the plan r meets the mask s. For
-// the families of this package the shape of the response between the edges
-// is known, so the mask's own edges decide (meetsAtEdges); a family from
-// outside the package is checked on a dense grid (meetsOnGrid).
-func (r resolved) meets(h Transfer, s Spec) bool {
+// maskBounds are a mask's verdict thresholds as magnitudes: the least |H|
+// in the passband, 10^(−(rp + MaskToleranceDB)/20), and the greatest in
+// the stopband, 10^(−(as − MaskToleranceDB)/20). They depend on the ripple
+// and attenuation alone, so a search converts them once for all its tries.
+type maskBounds struct{ passMin, stopMax float64 }
+
+// boundsOf returns the maskBounds of ripple rp and attenuation as, in dB,
+// 10^(−x/20) as an exponential (a fraction of an ulp from math.Pow's, far
+// below MaskToleranceDB).
+func boundsOf(rp, as float64) maskBounds {
+	return maskBounds{
+		passMin: math.Exp(-(rp + MaskToleranceDB) * (math.Ln10 / 20)),
+		stopMax: math.Exp(-(as - MaskToleranceDB) * (math.Ln10 / 20)),
+	}
+}
+
+// meets reports whether the design h of the plan r meets the mask s, whose
+// bounds mb are boundsOf(r.rp, r.as). For the families of this package the
+// shape of the response between the edges is known, so the mask's own
+// edges decide (meetsAtEdges); a family from outside the package is
+// checked on a dense grid (meetsOnGrid).
+func (r resolved) meets(h Transfer, s Spec, mb maskBounds) bool {
 	if r.kind == kindGeneric {
 		return meetsOnGrid(h, s, r.rp, r.as)
 	}
-	return meetsAtEdges(h, s, r.rp, r.as)
+	return meetsWithin(h, s, mb)
 }
 
 // meetsAtEdges reports whether h meets the mask s from its magnitude at the
@@ -206,12 +235,13 @@ func (r resolved) meets(h Transfer, s Spec) bool {
 // The dense grid of meetsOnGrid is kept for outside families and, in the
 // tests, as the check of this rule.
 func meetsAtEdges(h Transfer, s Spec, rp, as float64) bool {
-	// 10^(−x/20) as an exponential (a fraction of an ulp from math.Pow's,
-	// far below MaskToleranceDB).
-	passMin := math.Exp(-(rp + MaskToleranceDB) * (math.Ln10 / 20)) // least |H| in the passband
-	stopMax := math.Exp(-(as - MaskToleranceDB) * (math.Ln10 / 20)) // greatest |H| in the stopband
-	pass := func(f float64) bool { return magAt(h, 2*math.Pi*f) >= passMin }
-	stop := func(f float64) bool { return magAt(h, 2*math.Pi*f) <= stopMax }
+	return meetsWithin(h, s, boundsOf(rp, as))
+}
+
+// meetsWithin is meetsAtEdges with the bounds converted (boundsOf).
+func meetsWithin(h Transfer, s Spec, mb maskBounds) bool {
+	pass := func(f float64) bool { return edgeMag(h, 2*math.Pi*f) >= mb.passMin }
+	stop := func(f float64) bool { return edgeMag(h, 2*math.Pi*f) <= mb.stopMax }
 	p, t := s.PassHz, s.StopHz
 	switch s.Band {
 	case Lowpass, Highpass:
@@ -219,6 +249,33 @@ func meetsAtEdges(h Transfer, s Spec, rp, as float64) bool {
 	default:
 		return pass(p[0]) && pass(p[1]) && stop(t[0]) && stop(t[1])
 	}
+}
+
+// edgeMag returns |H(jw)| as magAt does, with one square root and one
+// division instead of one of each per factor: the products of the squared
+// distances |jw − z|² and |jw − p|² are accumulated separately and
+// |H| = |Gain|·√(Πz/Πp). While both products stay within 2^±500 (so that
+// their quotient is a normal float64 and no partial product has lost
+// bits to underflow) the result differs from magAt's by a few roundings
+// (about n·1e-16 relative, far below MaskToleranceDB's 1.2e-7); where a
+// product leaves that range (very high orders or frequencies, a frequency
+// on a zero or a pole) magAt's interleaved form is used.
+func edgeMag(h Transfer, w float64) float64 {
+	const lo, hi = 0x1p-500, 0x1p500
+	nz, np := len(h.Zeros), len(h.Poles)
+	num, den := 1.0, 1.0
+	for i := range max(nz, np) {
+		if i < nz {
+			num *= sqDist(h.Zeros[i], w)
+		}
+		if i < np {
+			den *= sqDist(h.Poles[i], w)
+		}
+		if !(num >= lo && num <= hi && den >= lo && den <= hi) {
+			return magAt(h, w)
+		}
+	}
+	return math.Abs(h.Gain) * math.Sqrt(num/den)
 }
 
 // meetGrid is the number of points of each band segment of meetsOnGrid

@@ -60,6 +60,9 @@ type resolved struct {
 	rp, as   float64 // passband ripple and stopband attenuation designed for, dB
 	freeAtt  bool    // elliptic: the attenuation was taken from the spec (slack may raise it)
 	maxOrder int     // highest order the family supports, 0 if unknown
+	// selRatio is K'(k)/K(k) of the elliptic selectivity k = 1/sel, set by
+	// estimate (0 when not computed) and reused by the design of each order.
+	selRatio float64
 }
 
 // familyParam settles one family parameter v against the spec's value sv:
@@ -167,7 +170,9 @@ func derefOrNil[T any](p *T) any {
 //	Butterworth:            n ≥ log D / (2·log sel)
 //	Chebyshev and inverse:  n ≥ acosh √D / acosh sel
 //	elliptic:               n ≥ K(k)·K'(k1) / (K'(k)·K(k1)),  k = 1/sel, k1 = 1/√D
-func (r resolved) estimate(sel float64) (n float64, ok bool) {
+//
+// For the elliptic family it also keeps the period ratio of k in r.selRatio.
+func (r *resolved) estimate(sel float64) (n float64, ok bool) {
 	d := dbPowM1(r.as) / dbPowM1(r.rp)
 	switch r.kind {
 	case kindButterworth:
@@ -175,9 +180,10 @@ func (r resolved) estimate(sel float64) (n float64, ok bool) {
 	case kindChebyshev, kindInverseChebyshev:
 		return math.Acosh(math.Sqrt(d)) / math.Acosh(sel), true
 	case kindElliptic:
-		k, kc := 1/sel, math.Sqrt((sel-1)*(sel+1))/sel
+		k, kc := selModuli(sel)
 		k1, k1c := 1/math.Sqrt(d), math.Sqrt((d-1)/d)
-		return ellip.PeriodRatio(k1, k1c) / ellip.PeriodRatio(k, kc), true
+		r.selRatio = ellip.PeriodRatio(k, kc)
+		return ellip.PeriodRatio(k1, k1c) / r.selRatio, true
 	}
 	return 0, false
 }
@@ -275,6 +281,7 @@ func minDesign(f Family, s Spec) (int, Transfer, error) {
 	}
 	// try designs order n and reports whether it meets the mask; a design
 	// error ends the search.
+	mb := boundsOf(r.rp, r.as)
 	try := func(n int) (Transfer, bool, error) {
 		h, err := r.design(s, pl, n)
 		if err != nil {
@@ -289,7 +296,7 @@ func minDesign(f Family, s Spec) (int, Transfer, error) {
 			}
 			return Transfer{}, false, err
 		}
-		return h, r.meets(h, s), nil
+		return h, r.meets(h, s, mb), nil
 	}
 	est, closed := r.estimate(pl.sel)
 	if !closed {
