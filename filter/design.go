@@ -240,8 +240,8 @@ func meetsAtEdges(h Transfer, s Spec, rp, as float64) bool {
 
 // meetsWithin is meetsAtEdges with the bounds converted (boundsOf).
 func meetsWithin(h Transfer, s Spec, mb maskBounds) bool {
-	pass := func(f float64) bool { return edgeMag(h, 2*math.Pi*f) >= mb.passMin }
-	stop := func(f float64) bool { return edgeMag(h, 2*math.Pi*f) <= mb.stopMax }
+	pass := func(f float64) bool { return magAt(h, 2*math.Pi*f) >= mb.passMin }
+	stop := func(f float64) bool { return magAt(h, 2*math.Pi*f) <= mb.stopMax }
 	p, t := s.PassHz, s.StopHz
 	switch s.Band {
 	case Lowpass, Highpass:
@@ -249,33 +249,6 @@ func meetsWithin(h Transfer, s Spec, mb maskBounds) bool {
 	default:
 		return pass(p[0]) && pass(p[1]) && stop(t[0]) && stop(t[1])
 	}
-}
-
-// edgeMag returns |H(jw)| as magAt does, with one square root and one
-// division instead of one of each per factor: the products of the squared
-// distances |jw − z|² and |jw − p|² are accumulated separately and
-// |H| = |Gain|·√(Πz/Πp). While both products stay within 2^±500 (so that
-// their quotient is a normal float64 and no partial product has lost
-// bits to underflow) the result differs from magAt's by a few roundings
-// (about n·1e-16 relative, far below MaskToleranceDB's 1.2e-7); where a
-// product leaves that range (very high orders or frequencies, a frequency
-// on a zero or a pole) magAt's interleaved form is used.
-func edgeMag(h Transfer, w float64) float64 {
-	const lo, hi = 0x1p-500, 0x1p500
-	nz, np := len(h.Zeros), len(h.Poles)
-	num, den := 1.0, 1.0
-	for i := range max(nz, np) {
-		if i < nz {
-			num *= sqDist(h.Zeros[i], w)
-		}
-		if i < np {
-			den *= sqDist(h.Poles[i], w)
-		}
-		if !(num >= lo && num <= hi && den >= lo && den <= hi) {
-			return magAt(h, w)
-		}
-	}
-	return math.Abs(h.Gain) * math.Sqrt(num/den)
 }
 
 // meetGrid is the number of points of each band segment of meetsOnGrid

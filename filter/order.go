@@ -33,6 +33,13 @@ const orderCap = 1 << 16
 // it, order n−1 is designed and checked as well.
 const stepDownMargin = 1e-6
 
+// skipMarginDB is how far, in dB, the exact-arithmetic stopband
+// attenuation of the estimate's order must exceed the mask's for MinOrder
+// to take that order without designing it (clearWithoutDesign): a
+// thousand times MaskToleranceDB, and far above the closed form's own
+// rounding (a few ulps of logarithms of at most a few thousand).
+const skipMarginDB = 1e-3
+
 // dbPowM1 returns 10^(db/10) − 1 without cancellation for small db.
 func dbPowM1(db float64) float64 { return math.Expm1(db * (math.Ln10 / 10)) }
 
@@ -203,12 +210,21 @@ func (r *resolved) estimate(sel float64) (n float64, ok bool) {
 // log D / (2·log sel) for Butterworth, acosh √D / acosh sel for Chebyshev
 // and InverseChebyshev, and the degree equation of complete elliptic
 // integrals for Elliptic. Bessel and families defined outside this package
-// search the orders upward from 1. In every case the order is verified
-// by designing the filter and evaluating it over the passband and
-// stopband (edges exactly, and a log grid in between):
-// the order is raised while the design falls short and lowered while one
-// order less also meets the mask (floating-point rounding where the exact
-// order is a whole number), with MaskToleranceDB of allowance. For
+// search the orders upward from 1. The order is verified by designing the
+// filter and evaluating it over the passband and stopband (edges exactly
+// for this package's families, whose shape between the edges is known,
+// and a dense log grid for outside families): the order is raised while
+// the design falls short and lowered while one order less also meets the
+// mask (floating-point rounding where the exact order is a whole number),
+// with MaskToleranceDB of allowance. Where the outcome of that check is
+// certain beforehand, MinOrder returns the estimate's order without
+// designing: for Butterworth and Chebyshev masks of order at most 32 whose
+// closed-form stopband attenuation at that order, in exact arithmetic,
+// exceeds AttenDB by at least 1e-3 dB, whose estimate lies clear of one
+// order less, and whose poles, gain and band (pole Q, relative bandwidth,
+// frequency range) bound the design's rounding far below MaskToleranceDB
+// and keep every value of it in float64 range (see clearWithoutDesign).
+// The order returned is the same either way, the one Design uses. For
 // bandpass and bandstop masks the transform's centre and width are chosen
 // within what the mask allows to need the least order: a bandpass keeps
 // the mask's passband edges (that choice is optimal); a bandstop may move
@@ -224,7 +240,7 @@ func (r *resolved) estimate(sel float64) (n float64, ok bool) {
 // left half-plane, which the message names), and ErrRange when the mask needs an order beyond the
 // family's supported range (also wrapping the prototype's ErrOrder).
 func MinOrder(f Family, s Spec) (int, error) {
-	n, _, err := minDesign(f, s)
+	n, _, err := minDesign(f, s, false)
 	return n, err
 }
 
@@ -258,12 +274,14 @@ func MinOrder(f Family, s Spec) (int, error) {
 //
 // Errors are those of MinOrder.
 func Design(f Family, s Spec) (Transfer, error) {
-	_, h, err := minDesign(f, s)
+	_, h, err := minDesign(f, s, true)
 	return h, err
 }
 
-// minDesign finds the least order and its design.
-func minDesign(f Family, s Spec) (int, Transfer, error) {
+// minDesign finds the least order and, when design is true, its design.
+// Without design (MinOrder) the verifying design of the estimate's order
+// is skipped where clearWithoutDesign shows its outcome beforehand.
+func minDesign(f Family, s Spec, design bool) (int, Transfer, error) {
 	if err := s.Validate(); err != nil {
 		return 0, Transfer{}, err
 	}
@@ -316,6 +334,9 @@ func minDesign(f Family, s Spec) (int, Transfer, error) {
 			s.Band, r.fam, est, limit, ErrRange)
 	}
 	n := min(max(1, int(math.Ceil(est))), limit)
+	if !design && est-float64(n-1) > stepDownMargin && r.clearWithoutDesign(pl, n) {
+		return n, Transfer{}, nil
+	}
 	h, ok, err := try(n)
 	if err != nil {
 		return 0, Transfer{}, err
@@ -373,4 +394,95 @@ func DesignOrder(f Family, s Spec, n int) (Transfer, error) {
 		return Transfer{}, fmt.Errorf("filter: order %d not positive: %w", n, ErrOrder)
 	}
 	return r.design(s, s.plan(), n)
+}
+
+// clearWithoutDesign reports whether the order-n design of the plan pl is
+// certain both to be built without error and to meet the mask, so that
+// MinOrder may return n (the caller has checked that the estimate lies
+// clear of n−1) without designing it. It answers for the Butterworth and
+// Chebyshev families (the others are designed and checked):
+//
+//   - Stopband: the closed-form attenuation of order n at the normalized
+//     stopband edge sel, 10·log10(1 + ε²·sel^2n) (Butterworth, its
+//     passband edge placed at RippleDB) or 10·log10(1 + ε²·cosh²(n·acosh
+//     sel)) (Chebyshev; Tₙ(x) = cosh(n·acosh x) for x ≥ 1, from memory of
+//     any Chebyshev-polynomial text), must exceed the mask's by
+//     skipMarginDB. The mask's other stop edge maps beyond sel, where the
+//     attenuation is higher (monotone).
+//   - Passband: the design's passband edge is exact (attenuation RippleDB)
+//     in exact arithmetic, so the check passes if the design's rounding
+//     stays below MaskToleranceDB (a relative 1.2e-7 of |H|). Every pole
+//     below has |Re p| ≥ rmin and |p| ≤ pmax: Butterworth poles
+//     ρ·(−sin θ + j·cos θ), ρ = ε^(−1/n) between 1 and 1/ε, |Re p| ≥ ρ/n
+//     (sin(π/2n) ≥ 1/n); Chebyshev −sinh μ·sin θ + j·cosh μ·cos θ with
+//     sinh μ ≥ μ = asinh(1/ε)/n ≥ (1/ε)/(n·√(1+1/ε²)) (asinh x ≥
+//     x/√(1+x²), its derivative decreasing) and |p| ≤ cosh μ ≤ √(1+1/ε²).
+//     Requiring pmax ≤ 2^12·rmin (pole Q at most 2048), n ≤ 32, and for the
+//     band transforms a mapped pole with |Re x| ≥ 2^−12·|x| and a relative
+//     bandwidth B/ω0 of at least 2^−12, the relative error of |H| at any
+//     frequency is at most Σ|δx|/|Re x| ≤ 64 roots × (1e-13 prototype
+//     accuracy × 2^12 + a few ulps × 2^12) ≈ 3e-8, and the rounding of the
+//     band plan moves the mapped pass edge by under 1e-11/(B/ω0) where the
+//     attenuation's slope is at most 17.4·n² dB: below 3e-7 dB together.
+//   - Range: the gain (h0·Π|p|, h0 = 1/√(1+ε²), or ρⁿ) lies within
+//     2^±G, G from rmin, pmax and h0; the transforms multiply it by ωⁿ
+//     (lowpass) or Bⁿ (bandpass) or leave h0 (highpass, bandstop), scale
+//     the roots by ω or map them by ω/p, or by the roots of
+//     s² − p·B·s + ω0² (p → B/p for bandstop), whose magnitudes lie in
+//     [ω0/(|p|·β + 1), |p|·B + ω0] and whose real parts are at least
+//     β·|Re p|/(2(|p|·β + 1)) of their magnitudes, β = B/ω0 (from
+//     Re x = B·Re p·|x|²/(|x|² + ω0²), the substitution solved for p).
+//     The exponent limits below keep every one of these well inside the
+//     normal float64 range, so no ErrRange can arise.
+func (r resolved) clearWithoutDesign(pl bandPlan, n int) bool {
+	if n > 32 || (r.kind != kindButterworth && r.kind != kindChebyshev) {
+		return false
+	}
+	e2 := dbPowM1(r.rp)
+	if !(e2 >= 0x1p-200 && e2 <= 0x1p200) {
+		return false
+	}
+	nf := float64(n)
+	x := 1 / math.Sqrt(e2) // 1/ε
+	var rmin, pmax float64
+	var have float64 // ln(ε²·Tₙ²(sel)) or ln(ε²·sel^2n)
+	if r.kind == kindButterworth {
+		rmin, pmax = 0.99*math.Min(1, x)/nf, 1.01*math.Max(1, x)
+		have = math.Log(e2) + 2*nf*math.Log(pl.sel)
+	} else {
+		rmin, pmax = 0.99*x/(math.Sqrt(1+x*x)*nf*nf), 1.01*math.Sqrt(1+x*x)
+		y := nf * math.Acosh(pl.sel)
+		// ln cosh y = y + ln(1 + e^(−2y)) − ln 2, for y ≥ 0.
+		have = math.Log(e2) + 2*(y+math.Log1p(math.Exp(-2*y))-math.Ln2)
+	}
+	if !(have >= math.Log(dbPowM1(r.as+skipMarginDB))) || !(pmax <= 0x1p12*rmin) {
+		return false
+	}
+	// Exponent bounds: |log2 v| < ex(v) for positive finite v.
+	ex := func(v float64) int {
+		_, e := math.Frexp(v)
+		return max(e, -e) + 1
+	}
+	gainEx := n*max(ex(rmin), ex(pmax)) + ex(1+e2)/2 + 1
+	switch pl.band {
+	case Lowpass, Highpass:
+		lw := ex(2 * math.Pi * pl.edgeHz)
+		if lw+ex(rmin)+2*ex(pmax) > 900 {
+			return false
+		}
+		return pl.band == Highpass || gainEx+n*lw <= 900
+	}
+	w0, bw := 2*math.Pi*pl.centerHz, 2*math.Pi*pl.widthHz
+	beta := bw / w0
+	if !(beta >= 0x1p-12 && beta <= 0x1p12) || ex(w0) > 400 || ex(bw) > 400 {
+		return false
+	}
+	pm, rm := pmax, rmin
+	if pl.band == Bandstop {
+		pm, rm = 1/rmin, rmin/(pmax*pmax)
+	}
+	if ex(pm)+ex(bw) > 450 || !(beta*rm/(2*(pm*beta+1)) >= 0x1p-12) {
+		return false
+	}
+	return pl.band == Bandstop || gainEx+n*ex(bw) <= 900
 }
