@@ -28,14 +28,19 @@ func (b Butterworth) Prototype(n int) (Transfer, error) {
 	if err := checkOrder(b.String(), n, MaxButterworthOrder); err != nil {
 		return Transfer{}, err
 	}
-	return Transfer{Poles: chebyshevPoles(n, 1, 1), Gain: 1}, nil
+	return Transfer{Poles: chebyshevPoles(nil, n, 1, 1), Gain: 1}, nil
 }
 
 // chebyshevPoles returns the n poles −sh·sin θₖ + j·ch·cos θₖ,
 // θₖ = (2k+1)π/(2n), in the package's pole order. sh = ch = 1 gives the
-// Butterworth poles; sh = sinh μ, ch = cosh μ the Chebyshev ones.
-func chebyshevPoles(n int, sh, ch float64) []complex128 {
-	poles := make([]complex128, 0, n)
+// Butterworth poles; sh = sinh μ, ch = cosh μ the Chebyshev ones. They are
+// written into dst[:0] when it has room for n (a caller's scratch array),
+// and into a new slice otherwise.
+func chebyshevPoles(dst []complex128, n int, sh, ch float64) []complex128 {
+	poles := dst[:0]
+	if cap(poles) < n {
+		poles = make([]complex128, 0, n)
+	}
 	for k := 0; k < n/2; k++ {
 		s := math.Sin(float64(2*k+1) * math.Pi / float64(2*n))
 		c := math.Sin(float64(n-2*k-1) * math.Pi / float64(2*n))

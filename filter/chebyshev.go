@@ -36,6 +36,13 @@ func (Chebyshev) MaxOrder() int { return MaxChebyshevOrder }
 // (subnormal) that ε² is not a normal float64, or a gain float64 cannot
 // hold.
 func (c Chebyshev) Prototype(n int) (Transfer, error) {
+	return c.prototypeInto(nil, n)
+}
+
+// prototypeInto is Prototype with the poles written into dst's array when
+// it has room for n (see chebyshevPoles): the design path passes a scratch
+// array for a prototype that a band transform maps into new slices.
+func (c Chebyshev) prototypeInto(dst []complex128, n int) (Transfer, error) {
 	if err := checkOrder(c.String(), n, MaxChebyshevOrder); err != nil {
 		return Transfer{}, err
 	}
@@ -47,7 +54,8 @@ func (c Chebyshev) Prototype(n int) (Transfer, error) {
 		return Transfer{}, fmt.Errorf("filter: Chebyshev RippleDB %g: ripple factor beyond float64 range: %w", c.RippleDB, ErrRange)
 	}
 	mu := math.Asinh(1/math.Sqrt(eps2)) / float64(n)
-	poles := chebyshevPoles(n, math.Sinh(mu), math.Cosh(mu))
+	ch, sh := coshSinh(mu)
+	poles := chebyshevPoles(dst, n, sh, ch)
 	h0 := 1.0
 	if n%2 == 0 {
 		h0 = 1 / math.Sqrt(1+eps2)
@@ -97,7 +105,8 @@ func (c InverseChebyshev) Prototype(n int) (Transfer, error) {
 		return Transfer{}, fmt.Errorf("filter: InverseChebyshev AttenDB %g: ripple factor beyond float64 range: %w", c.AttenDB, ErrRange)
 	}
 	mu := math.Asinh(math.Sqrt(ie2)) / float64(n)
-	poles := chebyshevPoles(n, math.Sinh(mu), math.Cosh(mu))
+	ch, sh := coshSinh(mu)
+	poles := chebyshevPoles(nil, n, sh, ch)
 	zeros := make([]complex128, 0, n-n%2)
 	for i, p := range poles {
 		// 1/p for the lower-half member maps to the upper half; keep the

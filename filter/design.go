@@ -160,6 +160,9 @@ func (r resolved) lowpass(sel float64, n int) (Transfer, error) {
 
 // design returns the order-n design of the plan.
 func (r resolved) design(s Spec, pl bandPlan, n int) (Transfer, error) {
+	if r.kind == kindChebyshev && pl.band != Lowpass {
+		return r.chebyshevBand(pl, n)
+	}
 	lp, err := r.lowpass(pl.sel, n)
 	if err != nil {
 		return Transfer{}, err
@@ -175,6 +178,26 @@ func (r resolved) design(s Spec, pl bandPlan, n int) (Transfer, error) {
 			return lp.scaleOwned(2 * math.Pi * pl.edgeHz)
 		}
 		return lp.ToLowpass(pl.edgeHz)
+	case Highpass:
+		return lp.ToHighpass(pl.edgeHz)
+	case Bandpass:
+		return lp.ToBandpass(pl.centerHz, pl.widthHz)
+	default:
+		return lp.ToBandstop(pl.centerHz, pl.widthHz)
+	}
+}
+
+// chebyshevBand is design for the Chebyshev family and the bands whose
+// transform maps the prototype into new slices (all but lowpass): the
+// prototype's poles live in a scratch array on the stack (up to 16 of
+// them) instead of a slice of their own.
+func (r resolved) chebyshevBand(pl bandPlan, n int) (Transfer, error) {
+	var scratch [16]complex128
+	lp, err := r.cheb.prototypeInto(scratch[:0], n)
+	if err != nil {
+		return Transfer{}, err
+	}
+	switch pl.band {
 	case Highpass:
 		return lp.ToHighpass(pl.edgeHz)
 	case Bandpass:

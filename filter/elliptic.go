@@ -99,7 +99,7 @@ func (e Elliptic) build(n int, ep2, k1, k1c, k, kc float64) (Transfer, error) {
 	// sn⁻¹(j/εp, k1) = j·sc⁻¹(1/εp, k1'), normalized by n·K(k1).
 	v0 := ellip.ArcSC(1/math.Sqrt(ep2), k1c, k1) / (float64(n) * ellip.KComp(k1c))
 	lan := ellip.NewLanden(k, kc)
-	ch, sh := math.Cosh(v0*math.Pi/2), math.Sinh(v0*math.Pi/2)
+	ch, sh := coshSinh(v0 * math.Pi / 2)
 	m := n / 2
 	// The start cosines of every pole (the real one of an odd order last)
 	// and zero, climbed together (ClimbAll: the bits of Climb and

@@ -267,7 +267,7 @@ func (e Elliptic) buildRef(n int, ep2, k1, k1c, k, kc float64) (Transfer, error)
 	if n%2 == 0 {
 		h0 = 1 / math.Sqrt(1+ep2)
 	}
-	g, ok := dcGain(h0, zeros, poles)
+	g, ok := dcGainRef(h0, zeros, poles)
 	if !ok {
 		return Transfer{}, fmt.Errorf("filter: Elliptic order %d: gain %g not representable: %w", n, g, ErrRange)
 	}
@@ -276,3 +276,17 @@ func (e Elliptic) buildRef(n int, ep2, k1, k1c, k, kc float64) (Transfer, error)
 
 // ellipDegree is ellip.Degree (for the reference build's moduli).
 func ellipDegree(n int, k1, k1c float64) (k, kc float64) { return ellip.Degree(n, k1, k1c) }
+
+// Reference copy (pre issue 7).
+func dcGainRef(h0 float64, zeros, poles []complex128) (g float64, ok bool) {
+	acc := complex(h0, 0)
+	for i, p := range poles {
+		if i < len(zeros) {
+			acc *= p / zeros[i]
+		} else {
+			acc *= -p
+		}
+	}
+	g = real(acc)
+	return g, g != 0 && !math.IsInf(g, 0) && !math.IsNaN(g)
+}

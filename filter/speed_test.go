@@ -239,3 +239,84 @@ func TestPropMinOrderNearTheMargin(t *testing.T) {
 		}
 	})
 }
+
+// TestPropCoshSinhIsTheLibrarys: coshSinh gives the bits of math.Cosh and
+// math.Sinh, across the thresholds 0.5 and 21 and for special values.
+func TestPropCoshSinhIsTheLibrarys(t *testing.T) {
+	for _, x := range []float64{0, 0.5, math.Nextafter(0.5, 1), 21, math.Nextafter(21, 22), 710, 711,
+		-1, math.Inf(1), math.Inf(-1), math.NaN()} {
+		checkCoshSinh(t, x)
+	}
+	rapid.Check(t, func(t *rapid.T) {
+		x := rapid.Float64Range(-30, 800).Draw(t, "x")
+		if rapid.Bool().Draw(t, "small") {
+			x = math.Pow(10, rapid.Float64Range(-300, 1.5).Draw(t, "log10 x"))
+		}
+		checkCoshSinh(t, x)
+	})
+}
+
+func checkCoshSinh(t interface{ Fatalf(string, ...any) }, x float64) {
+	ch, sh := coshSinh(x)
+	if math.Float64bits(ch) != math.Float64bits(math.Cosh(x)) || math.Float64bits(sh) != math.Float64bits(math.Sinh(x)) {
+		t.Fatalf("coshSinh(%v) = %v, %v; math: %v, %v", x, ch, sh, math.Cosh(x), math.Sinh(x))
+	}
+}
+
+// TestPropDivByImagIsDivision: divByImag gives the bits of Go's complex
+// division by j·d, for random finite and special operands.
+func TestPropDivByImagIsDivision(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		part := func(name string) float64 {
+			switch rapid.IntRange(0, 9).Draw(t, name+" kind") {
+			case 0:
+				return 0
+			case 1:
+				return math.Copysign(0, -1)
+			case 2:
+				return math.Inf(rapid.IntRange(-1, 1).Draw(t, name+" sign"))
+			case 3:
+				return math.NaN()
+			}
+			v := math.Pow(10, rapid.Float64Range(-320, 308).Draw(t, name+" log10"))
+			if rapid.Bool().Draw(t, name+" negative") {
+				v = -v
+			}
+			return v
+		}
+		p := complex(part("re"), part("im"))
+		d := part("d")
+		got, want := divByImag(p, d), p/complex(0, d)
+		same := func(a, b float64) bool {
+			return math.Float64bits(a) == math.Float64bits(b) || math.IsNaN(a) && math.IsNaN(b)
+		}
+		if !same(real(got), real(want)) || !same(imag(got), imag(want)) {
+			t.Fatalf("divByImag(%v, %v) = %v, division %v", p, d, got, want)
+		}
+	})
+}
+
+// TestBandpassSlicesDoNotAlias: the zeros and poles of a bandpass design
+// share one backing array; appending to either leaves the other as it was.
+func TestBandpassSlicesDoNotAlias(t *testing.T) {
+	for _, f := range []Family{Chebyshev{}, Elliptic{}, Butterworth{}, InverseChebyshev{}} {
+		h, err := Design(f, perfBandpass)
+		if err != nil {
+			t.Fatal(err)
+		}
+		zeros := append([]complex128(nil), h.Zeros...)
+		poles := append([]complex128(nil), h.Poles...)
+		_ = append(h.Poles, 7+7i)
+		_ = append(h.Zeros, 9+9i)
+		for i := range zeros {
+			if h.Zeros[i] != zeros[i] {
+				t.Fatalf("%v: zero %d changed by an append", f, i)
+			}
+		}
+		for i := range poles {
+			if h.Poles[i] != poles[i] {
+				t.Fatalf("%v: pole %d changed by an append", f, i)
+			}
+		}
+	}
+}

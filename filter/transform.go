@@ -329,7 +329,11 @@ func quadPair(b, c complex128) (complex128, complex128) {
 // The result has room for extra more roots (the caller's zeros or poles at
 // the origin).
 func bandRoots(rs []complex128, b func(complex128) complex128, c complex128, extra int) []complex128 {
-	out := make([]complex128, 0, 2*len(rs)+max(extra, 0))
+	return bandRootsInto(make([]complex128, 0, 2*len(rs)+max(extra, 0)), rs, b, c)
+}
+
+// bandRootsInto is bandRoots appending the 2·len(rs) roots to out.
+func bandRootsInto(out, rs []complex128, b func(complex128) complex128, c complex128) []complex128 {
 	for i := 0; i < len(rs); i++ {
 		r := rs[i]
 		x1, x2 := quadPair(b(r), c)
@@ -385,8 +389,14 @@ func (h Transfer) ToBandpass(centerHz, widthHz float64) (Transfer, error) {
 	}
 	cb := complex(bw, 0)
 	mapB := func(r complex128) complex128 { return r * cb }
-	zeros := bandRoots(h.Zeros, mapB, c, len(h.Poles)-len(h.Zeros))
-	poles := bandRoots(h.Poles, mapB, c, len(h.Zeros)-len(h.Poles))
+	// One backing array for both, poles first; each slice's capacity ends
+	// at its final length (the zeros at the origin included), so neither
+	// an append here nor a caller's later one can overwrite the other.
+	nz := 2*len(h.Zeros) + max(len(h.Poles)-len(h.Zeros), 0)
+	np := 2*len(h.Poles) + max(len(h.Zeros)-len(h.Poles), 0)
+	buf := make([]complex128, np+nz)
+	poles := bandRootsInto(buf[:0:np], h.Poles, mapB, c)
+	zeros := bandRootsInto(buf[np:np:np+nz], h.Zeros, mapB, c)
 	g := newScaled(h.Gain)
 	d := len(h.Poles) - len(h.Zeros)
 	for ; d > 0; d-- {

@@ -64,6 +64,10 @@ func KComp(kc float64) float64 {
 	return math.Pi / (2 * AGM(1, kc))
 }
 
+// rfStopFactor is (3r)^(−1/6) of Carlson's stopping rule in RF, for the
+// relative error r = 1e-16 (math.Pow's value, computed once).
+var rfStopFactor = math.Pow(3*1e-16, -1.0/6)
+
 // RF returns Carlson's symmetric elliptic integral of the first kind
 // R_F(x, y, z) = ½∫₀^∞ dt / √((t+x)(t+y)(t+z)) for x, y, z ≥ 0, at most
 // one of them zero, by Carlson's duplication algorithm (B. C. Carlson,
@@ -101,11 +105,10 @@ func RF(x, y, z float64) float64 {
 	}
 	// Carlson's (1995) stopping rule: with r the wanted relative error,
 	// iterate until (3r)^(-1/6)·max|A₀−x₀, …| · 4⁻ⁿ < |Aₙ|.
-	const r = 1e-16
 	x0, y0 := x, y
 	a0 := (x + y + z) / 3
 	a := a0
-	q := math.Pow(3*r, -1.0/6) * max(math.Abs(a0-x), math.Abs(a0-y), math.Abs(a0-z))
+	q := rfStopFactor * max(math.Abs(a0-x), math.Abs(a0-y), math.Abs(a0-z))
 	pow4 := 1.0
 	for range 100 {
 		if q*pow4 < math.Abs(a) {
