@@ -96,6 +96,13 @@ func (e Elliptic) Prototype(n int) (Transfer, error) {
 // factor of the pole's. The results are those of ellip.CD (Landen's
 // climb to the last bit; the start cosine to within an ulp of cmplx.Cos).
 func (e Elliptic) build(n int, ep2, k1, k1c, k, kc float64) (Transfer, error) {
+	return e.buildInto(nil, n, ep2, k1, k1c, k, kc)
+}
+
+// buildInto is build with the poles and zeros in dst's array when it has
+// room for all of them (MinOrder's check of a design it does not return),
+// in a new one otherwise.
+func (e Elliptic) buildInto(dst []complex128, n int, ep2, k1, k1c, k, kc float64) (Transfer, error) {
 	// sn⁻¹(j/εp, k1) = j·sc⁻¹(1/εp, k1'), normalized by n·K(k1).
 	v0 := ellip.ArcSC(1/math.Sqrt(ep2), k1c, k1) / (float64(n) * ellip.KComp(k1c))
 	lan := ellip.NewLanden(k, kc)
@@ -120,7 +127,10 @@ func (e Elliptic) build(n int, ep2, k1, k1c, k, kc float64) (Transfer, error) {
 	lan.ClimbAll(ws, cs)
 	// One backing array: poles first, then zeros (the zeros' capacity ends
 	// at their length, so an append to them cannot overwrite the poles).
-	buf := make([]complex128, n+2*m)
+	buf := dst[:cap(dst)]
+	if len(buf) < n+2*m {
+		buf = make([]complex128, n+2*m)
+	}
 	poles, zeros := buf[:0:n], buf[n:n:n+2*m]
 	for i := range m {
 		w := ws[i]

@@ -218,13 +218,16 @@ func (r *resolved) estimate(sel float64) (n float64, ok bool) {
 // mask (floating-point rounding where the exact order is a whole number),
 // with MaskToleranceDB of allowance. Where the outcome of that check is
 // certain beforehand, MinOrder returns the estimate's order without
-// designing: for Butterworth and Chebyshev masks of order at most 32 whose
-// closed-form stopband attenuation at that order, in exact arithmetic,
-// exceeds AttenDB by at least 1e-3 dB, whose estimate lies clear of one
-// order less, and whose poles, gain and band (pole Q, relative bandwidth,
-// frequency range) bound the design's rounding far below MaskToleranceDB
-// and keep every value of it in float64 range (see clearWithoutDesign).
-// The order returned is the same either way, the one Design uses. For
+// designing: for Butterworth and Chebyshev masks of order at most 32, and
+// elliptic lowpass and highpass masks of order at most 14 with the
+// family's AttenDB zero, whose closed-form stopband attenuation at that
+// order, in exact arithmetic, exceeds AttenDB by at least 1e-3 dB, whose
+// estimate lies clear of one order less, and whose poles, gain and band
+// (pole Q, relative bandwidth, frequency range) bound the design's
+// rounding far below MaskToleranceDB and keep every value of it in
+// float64 range (see clearWithoutDesign; the elliptic prototype is still
+// built, its scaling and check skipped). The order returned is the same
+// either way, the one Design uses. For
 // bandpass and bandstop masks the transform's centre and width are chosen
 // within what the mask allows to need the least order: a bandpass keeps
 // the mask's passband edges (that choice is optimal); a bandstop may move
@@ -396,11 +399,18 @@ func DesignOrder(f Family, s Spec, n int) (Transfer, error) {
 	return r.design(s, s.plan(), n)
 }
 
+// ex returns a bound on |log2 v| for positive finite v: |log2 v| < ex(v).
+func ex(v float64) int {
+	_, e := math.Frexp(v)
+	return max(e, -e) + 1
+}
+
 // clearWithoutDesign reports whether the order-n design of the plan pl is
 // certain both to be built without error and to meet the mask, so that
 // MinOrder may return n (the caller has checked that the estimate lies
 // clear of n−1) without designing it. It answers for the Butterworth and
-// Chebyshev families (the others are designed and checked):
+// Chebyshev families below and the elliptic one (ellipticClear); the
+// others are designed and checked:
 //
 //   - Stopband: the closed-form attenuation of order n at the normalized
 //     stopband edge sel, 10·log10(1 + ε²·sel^2n) (Butterworth, its
@@ -435,6 +445,9 @@ func DesignOrder(f Family, s Spec, n int) (Transfer, error) {
 //     The exponent limits below keep every one of these well inside the
 //     normal float64 range, so no ErrRange can arise.
 func (r resolved) clearWithoutDesign(pl bandPlan, n int) bool {
+	if r.kind == kindElliptic {
+		return r.ellipticClear(pl, n)
+	}
 	if n > 32 || (r.kind != kindButterworth && r.kind != kindChebyshev) {
 		return false
 	}
@@ -458,11 +471,6 @@ func (r resolved) clearWithoutDesign(pl bandPlan, n int) bool {
 	if !(have >= math.Log(dbPowM1(r.as+skipMarginDB))) || !(pmax <= 0x1p12*rmin) {
 		return false
 	}
-	// Exponent bounds: |log2 v| < ex(v) for positive finite v.
-	ex := func(v float64) int {
-		_, e := math.Frexp(v)
-		return max(e, -e) + 1
-	}
 	gainEx := n*max(ex(rmin), ex(pmax)) + ex(1+e2)/2 + 1
 	switch pl.band {
 	case Lowpass, Highpass:
@@ -485,4 +493,69 @@ func (r resolved) clearWithoutDesign(pl bandPlan, n int) bool {
 		return false
 	}
 	return pl.band == Bandstop || gainEx+n*ex(bw) <= 900
+}
+
+// ellipticClear is clearWithoutDesign for the elliptic family, lowpass and
+// highpass masks of order at most 14 whose attenuation is the spec's (the
+// family's AttenDB zero). The design path then builds the prototype from
+// the moduli of the slack (see resolved.lowpass) with the stopband edge at
+// sel exact and the attenuation As of order n there (ellipticSlack),
+// which must exceed the mask's by skipMarginDB and stay within
+// maxSlackAttenDB. The prototype itself is built here (into a scratch
+// array: its own errors, pole Q beyond MaxEllipticQ or a gain out of
+// range, then reach MinOrder through the verifying path) and only its
+// frequency scaling and the check of the mask are skipped, where its
+// actual poles and zeros show beforehand that they succeed:
+//
+//   - Accuracy: the passband edge is exact (attenuation RippleDB), so the
+//     check passes if the rounding of |H| stays below MaskToleranceDB.
+//     The prototype's roots are accurate to 1e-13 relative for orders to
+//     14 and pole Q to 1e4 (Prototype's doc, accuracy_test.go); with
+//     |p| ≤ 2^12·|Re p| for every pole and every zero's |z| at least
+//     2^−12·|z| from both edges (1 and sel), each root moves |H| at either
+//     edge by at most 1e-13·2^13 relative, 28 roots by under 3e-8 (about
+//     2.5e-7 dB), and the scaling by ω adds an ulp per root.
+//   - Range: the scaled roots ω·r (lowpass) or ω/r (highpass), their real
+//     parts ω·Re p or ω·Re p/|p|², and the gain g·ω^(n mod 2) (lowpass)
+//     or H(0)-normalized h0 times Π(−z)/Π(−p)·g = h0 (highpass, the zeros
+//     at the origin adding no factor) stay inside 2^±1000.
+func (r resolved) ellipticClear(pl bandPlan, n int) bool {
+	if n > 14 || !r.freeAtt || (pl.band != Lowpass && pl.band != Highpass) || !(pl.sel >= 1+0x1p-12) {
+		return false
+	}
+	k, kc := selModuli(pl.sel)
+	ep2 := dbPowM1(r.rp)
+	as, k1, k1c := ellipticSlack(n, r.selRatio, ep2)
+	if !(as <= maxSlackAttenDB && as >= r.as+skipMarginDB && k1c > 0) {
+		return false
+	}
+	var scratch [2 * 14]complex128 // n poles and n − n mod 2 zeros
+	fam := r.ell
+	fam.AttenDB = as
+	h, err := fam.buildInto(scratch[:], n, ep2, k1, k1c, k, kc)
+	if err != nil {
+		return false
+	}
+	lw := ex(2 * math.Pi * pl.edgeHz)
+	rmin, pmax, pmin := math.Inf(1), 0.0, math.Inf(1)
+	for _, p := range h.Poles {
+		re, m := -real(p), math.Hypot(real(p), imag(p))
+		if !(re > 0 && m <= 0x1p12*re) {
+			return false
+		}
+		rmin, pmax, pmin = math.Min(rmin, re), math.Max(pmax, m), math.Min(pmin, m)
+	}
+	for _, z := range h.Zeros {
+		m := math.Abs(imag(z))
+		if !(math.Abs(m-1) >= 0x1p-12*m && math.Abs(m-pl.sel) >= 0x1p-12*m) || ex(m)+lw > 1000 {
+			return false
+		}
+	}
+	g := math.Abs(h.Gain)
+	if !(g > 0) || ex(g)+lw > 1000 {
+		return false
+	}
+	// Lowpass: |ω·p| ≤ ω·pmax, |ω·Re p| ≥ ω·rmin. Highpass: |ω/p| ≤ ω/pmin
+	// and |Re(ω/p)| = ω·|Re p|/|p|² ≥ ω·rmin/pmax².
+	return lw+ex(pmax)+ex(pmin)+ex(rmin)+2*ex(pmax) <= 1000
 }

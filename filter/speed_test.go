@@ -4,6 +4,7 @@ import (
 	"math"
 	"testing"
 
+	"github.com/rolloff/rolloff/internal/ellip"
 	"pgregory.net/rapid"
 )
 
@@ -132,6 +133,7 @@ func TestPropEllipticBuildMatchesReference(t *testing.T) {
 }
 
 // TestPropClearWithoutDesignHolds: where clearWithoutDesign lets MinOrder
+// (Butterworth, Chebyshev and elliptic masks)
 // skip the verifying design, that design is built without error, meets the
 // mask by the edges and on the dense grid, has its passband edge
 // attenuation within 3e-7 dB of the ripple (the rounding bound its doc
@@ -142,10 +144,7 @@ func TestPropClearWithoutDesignHolds(t *testing.T) {
 	fired, total := 0, 0
 	rapid.Check(t, func(t *rapid.T) {
 		s := drawSpeedSpec(t)
-		var f Family = Butterworth{}
-		if rapid.Bool().Draw(t, "chebyshev") {
-			f = Chebyshev{}
-		}
+		f := []Family{Butterworth{}, Chebyshev{}, Elliptic{}}[rapid.IntRange(0, 2).Draw(t, "family")]
 		r, err := resolve(f, s)
 		if err != nil {
 			t.Fatal(err)
@@ -157,6 +156,9 @@ func TestPropClearWithoutDesignHolds(t *testing.T) {
 			return
 		}
 		n := max(1, int(math.Ceil(est)))
+		if r.kind == kindElliptic {
+			n = min(n, MaxEllipticOrder)
+		}
 		if !(est-float64(n-1) > stepDownMargin) || !r.clearWithoutDesign(pl, n) {
 			return
 		}
@@ -203,26 +205,28 @@ func TestPropClearWithoutDesignHolds(t *testing.T) {
 }
 
 // TestPropMinOrderNearTheMargin: masks whose attenuation lies within
-// ±0.01 dB (and down to 1e-9 dB) of what a Butterworth or Chebyshev order
-// reaches exactly, where clearWithoutDesign's margin decides: MinOrder
-// still equals the reference's verified order.
+// ±0.01 dB (and down to 1e-9 dB) of what a Butterworth, Chebyshev or
+// elliptic order reaches exactly, where clearWithoutDesign's margin
+// decides: MinOrder still equals the reference's verified order.
 func TestPropMinOrderNearTheMargin(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		s := drawSpeedSpec(t)
-		cheb := rapid.Bool().Draw(t, "chebyshev")
-		var f Family = Butterworth{}
-		if cheb {
-			f = Chebyshev{}
-		}
+		kind := rapid.IntRange(0, 2).Draw(t, "family")
+		f := []Family{Butterworth{}, Chebyshev{}, Elliptic{}}[kind]
 		n := rapid.IntRange(1, 32).Draw(t, "n")
 		sel := s.plan().sel
 		e2 := dbPowM1(s.RippleDB)
 		var a float64 // exact attenuation of order n at sel
-		if cheb {
+		switch kind {
+		case 0:
+			a = 10 * math.Log10(1+e2*math.Pow(sel, 2*float64(n)))
+		case 1:
 			c := math.Cosh(float64(n) * math.Acosh(sel))
 			a = 10 * math.Log10(1+e2*c*c)
-		} else {
-			a = 10 * math.Log10(1+e2*math.Pow(sel, 2*float64(n)))
+		default:
+			n = min(n, 16)
+			k, kc := selModuli(sel)
+			a, _, _ = ellipticSlack(n, ellip.PeriodRatio(k, kc), e2)
 		}
 		d := math.Copysign(math.Pow(10, rapid.Float64Range(-9, -2).Draw(t, "log10 |delta|")), rapid.Float64Range(-1, 1).Draw(t, "sign"))
 		s.AttenDB = a + d
