@@ -49,13 +49,48 @@ const (
 	stageOriginTol = 1e-12
 )
 
-// section is a stage under construction.
+// section is a stage under construction (order and origin are small
+// counts, kept narrow so that a section is four words).
 type section struct {
-	order  int
+	order  int32   // 1 or 2
+	origin int32   // zeros at the origin (0, 1 or 2)
 	w0, q  float64 // rad/s; q = 0 for first order
 	wz     float64 // jω zero pair, rad/s (0 for none)
-	origin int     // zeros at the origin (0, 1 or 2)
 }
+
+// before reports whether a sorts strictly before b in the cascade order:
+// ascending q, then w0, wz and origin (cmp.Compare's order, NaN first).
+func (a *section) before(b *section) bool {
+	if c := fcmp(a.q, b.q); c != 0 {
+		return c < 0
+	}
+	if c := fcmp(a.w0, b.w0); c != 0 {
+		return c < 0
+	}
+	if c := fcmp(a.wz, b.wz); c != 0 {
+		return c < 0
+	}
+	return a.origin < b.origin
+}
+
+// fcmp is cmp.Compare for float64 with the ordered case first: −1, 0 or
+// +1, a NaN before any number and equal to a NaN.
+func fcmp(x, y float64) int {
+	if x < y {
+		return -1
+	}
+	if x > y {
+		return 1
+	}
+	if x == y {
+		return 0
+	}
+	return cmp.Compare(x, y)
+}
+
+// stackRoots is the number of poles (and of zeros) whose working arrays
+// StagesWith keeps on the stack; a larger transfer allocates them.
+const stackRoots = 32
 
 // Stages factors h into first- and second-order stages with the default
 // options (dynamic-range gain scaling); see StagesWith.
@@ -116,19 +151,36 @@ func (h Transfer) StagesWith(opt StageOptions) ([]Stage, error) {
 	if len(h.Zeros) > len(h.Poles) {
 		return nil, bad("%d zeros, more than the %d poles", len(h.Zeros), len(h.Poles))
 	}
-	secs, err := poleSections(h.Poles)
+	// Every pole pair and the one real pole left over make a section.
+	var secBuf [stackRoots / 2]section
+	secs := secBuf[:]
+	if n := (len(h.Poles) + 1) / 2; n <= len(secBuf) {
+		secs = secBuf[:n]
+	} else {
+		secs = make([]section, n)
+	}
+	minPole, err := poleSections(secs, h.Poles)
 	if err != nil {
 		return nil, err
 	}
-	if err := assignZeros(secs, h.Zeros, h.Poles); err != nil {
+	if err := assignZeros(secs, h.Zeros, minPole); err != nil {
 		return nil, err
 	}
-	slices.SortStableFunc(secs, func(a, b section) int {
-		return cmp.Or(cmp.Compare(a.q, b.q), cmp.Compare(a.w0, b.w0), cmp.Compare(a.wz, b.wz), cmp.Compare(a.origin, b.origin))
-	})
+	var ordBuf [stackRoots / 2]int
+	ord := ordBuf[:]
+	if len(secs) <= len(ordBuf) {
+		ord = ordBuf[:len(secs)]
+	} else {
+		ord = make([]int, len(secs))
+	}
+	sortSections(ord, secs)
 	stages := make([]Stage, len(secs))
-	for i, s := range secs {
-		st := Stage{Order: s.order, F0Hz: s.w0 / (2 * math.Pi), Q: s.q, Gain: 1}
+	for i, k := range ord {
+		// Field by field into the zeroed stage (a composite literal would
+		// be built aside and copied).
+		s := &secs[k]
+		st := &stages[i]
+		st.Order, st.F0Hz, st.Q, st.Gain = int(s.order), s.w0/(2*math.Pi), s.q, 1
 		switch {
 		case s.wz > 0:
 			st.Kind, st.ZeroHz = NotchStage, s.wz/(2*math.Pi)
@@ -139,10 +191,17 @@ func (h Transfer) StagesWith(opt StageOptions) ([]Stage, error) {
 		default:
 			st.Kind = LowpassStage
 		}
-		if err := st.Validate(); err != nil {
-			return nil, fmt.Errorf("filter: stages: a section out of range: %w", err)
+		// What Validate checks of a stage made here (the kind, orders,
+		// first-order Q and Gain are right by construction), Validate
+		// itself naming the field when it fails.
+		ok := st.F0Hz > 0 && st.F0Hz <= math.MaxFloat64 &&
+			(st.Order == 1 || st.Q > 0 && st.Q <= math.MaxFloat64) &&
+			(st.Kind != NotchStage || st.ZeroHz > 0 && st.ZeroHz <= math.MaxFloat64)
+		if !ok {
+			if err := st.Validate(); err != nil {
+				return nil, fmt.Errorf("filter: stages: a section out of range: %w", err)
+			}
 		}
-		stages[i] = st
 	}
 	if err := distributeGain(stages, h, opt.Gain); err != nil {
 		return nil, err
@@ -150,49 +209,93 @@ func (h Transfer) StagesWith(opt StageOptions) ([]Stage, error) {
 	return stages, nil
 }
 
-// poleSections pairs the poles into sections (without zeros).
-func poleSections(poles []complex128) ([]section, error) {
-	used := make([]bool, len(poles))
-	secs := make([]section, 0, (len(poles)+1)/2)
-	var reals []float64 // magnitudes of real poles
+// poleSections pairs the poles into the zeroed sections secs, one for each
+// pair and for a real pole left over ((len(poles)+1)/2 in all), without
+// zeros, and returns the least pole magnitude |p| (the bits of
+// cmplx.Abs).
+func poleSections(secs []section, poles []complex128) (float64, error) {
+	n := 0 // sections made
+	// add sets the next section (field by field: a composite literal
+	// would be built aside and copied, a store-forwarding stall).
+	add := func(order int32, w0, q float64) {
+		s := &secs[n]
+		s.order, s.w0, s.q = order, w0, q
+		n++
+	}
+	var usedBuf [stackRoots]bool
+	var realBuf [stackRoots]float64
+	used, reals := usedBuf[:], realBuf[:0] // reals: magnitudes of real poles
+	if len(poles) > len(usedBuf) {
+		used, reals = make([]bool, len(poles)), make([]float64, 0, len(poles))
+	}
+	minPole := math.Inf(1)
 	for i, p := range poles {
 		if used[i] {
 			continue
 		}
 		if !(real(p) < 0) {
-			return nil, fmt.Errorf("filter: stages: pole %v not in the open left half-plane: %w", p, ErrStage)
+			return 0, fmt.Errorf("filter: stages: pole %v not in the open left half-plane: %w", p, ErrStage)
 		}
 		used[i] = true
+		if imag(p) == 0 {
+			// |p| = Hypot(re, 0) = −re exactly.
+			reals = append(reals, -real(p))
+			minPole = lesser(minPole, -real(p))
+			continue
+		}
+		if i+1 < len(poles) && !used[i+1] && poles[i+1] == cmplx.Conj(p) {
+			// The exact conjugate next to it (nearestConj's answer at
+			// distance 0, within any tolerance): the pair's mean is the
+			// upper member, and w0 = Hypot(re, |im|) is |p| = |p̄|.
+			used[i+1] = true
+			re := real(p)
+			w0 := math.Hypot(re, math.Abs(imag(p)))
+			minPole = lesser(minPole, w0)
+			add(2, w0, w0/(-2*re))
+			continue
+		}
 		mag := cmplx.Abs(p)
-		if imag(p) != 0 {
-			best, bj := nearestConj(poles, used, i)
-			if bj >= 0 && best <= stagePairTol*mag {
-				used[bj] = true
-				q := poles[bj]
-				// The pair's mean, upper member: exact for exact conjugates.
-				re := mean(real(p), real(q))
-				im := mean(math.Abs(imag(p)), math.Abs(imag(q)))
-				w0 := math.Hypot(re, im)
-				secs = append(secs, section{order: 2, w0: w0, q: w0 / (-2 * re)})
-				continue
-			}
-			if math.Abs(imag(p)) > stagePairTol*mag {
-				return nil, fmt.Errorf("filter: stages: complex pole %v has no conjugate: %w", p, ErrStage)
-			}
+		minPole = lesser(minPole, mag)
+		best, bj := nearestConj(poles, used, i)
+		if bj >= 0 && best <= stagePairTol*mag {
+			used[bj] = true
+			q := poles[bj]
+			minPole = lesser(minPole, cmplx.Abs(q))
+			// The pair's mean, upper member: exact for exact conjugates.
+			re := mean(real(p), real(q))
+			im := mean(math.Abs(imag(p)), math.Abs(imag(q)))
+			w0 := math.Hypot(re, im)
+			add(2, w0, w0/(-2*re))
+			continue
+		}
+		if math.Abs(imag(p)) > stagePairTol*mag {
+			return 0, fmt.Errorf("filter: stages: complex pole %v has no conjugate: %w", p, ErrStage)
 		}
 		reals = append(reals, -real(p))
 	}
-	slices.Sort(reals)
+	// Insertion sort for the few real poles of a design (the values, all
+	// positive and not NaN, come out the same from any sort).
+	if len(reals) <= len(realBuf) {
+		for i := 1; i < len(reals); i++ {
+			x, j := reals[i], i
+			for ; j > 0 && x < reals[j-1]; j-- {
+				reals[j] = reals[j-1]
+			}
+			reals[j] = x
+		}
+	} else {
+		slices.Sort(reals)
+	}
 	for len(reals) >= 2 {
 		a, b := reals[0], reals[1]
 		reals = reals[2:]
 		w0 := math.Sqrt(a) * math.Sqrt(b)
-		secs = append(secs, section{order: 2, w0: w0, q: w0 / (a + b)})
+		add(2, w0, w0/(a+b))
 	}
 	if len(reals) == 1 {
-		secs = append(secs, section{order: 1, w0: reals[0]})
+		add(1, reals[0], 0)
 	}
-	return secs, nil
+	return minPole, nil
 }
 
 // nearestConj returns the index j > i of the unused root of rs nearest to
@@ -207,7 +310,10 @@ func nearestConj(rs []complex128, used []bool, i int) (float64, int) {
 	}
 	best, bj := math.Inf(1), -1
 	for j := i + 1; j < len(rs); j++ {
-		if d := cmplx.Abs(rs[j] - c); !used[j] && d < best {
+		if used[j] {
+			continue
+		}
+		if d := cmplx.Abs(rs[j] - c); d < best {
 			best, bj = d, j
 		}
 	}
@@ -224,21 +330,27 @@ func mean(a, b float64) float64 {
 }
 
 // assignZeros classifies the zeros and assigns them to the sections (see
-// StagesWith).
-func assignZeros(secs []section, zeros, poles []complex128) error {
-	minPole := math.Inf(1)
-	for _, p := range poles {
-		minPole = math.Min(minPole, cmplx.Abs(p))
+// StagesWith); minPole is the least pole magnitude.
+func assignZeros(secs []section, zeros []complex128, minPole float64) error {
+	if len(zeros) == 0 {
+		return nil
 	}
-	used := make([]bool, len(zeros))
-	var pairs []float64 // jω zero pair frequencies, rad/s
+	var usedBuf [stackRoots]bool
+	var pairBuf [stackRoots / 2]float64
+	used, pairs := usedBuf[:], pairBuf[:0] // pairs: jω zero pair frequencies, rad/s
+	if len(zeros) > len(usedBuf) {
+		used, pairs = make([]bool, len(zeros)), make([]float64, 0, len(zeros)/2)
+	}
 	origin := 0
 	for i, z := range zeros {
 		if used[i] {
 			continue
 		}
 		used[i] = true
-		mag := cmplx.Abs(z)
+		mag := math.Abs(imag(z)) // Hypot(0, im) = |im| exactly
+		if real(z) != 0 {
+			mag = cmplx.Abs(z)
+		}
 		if mag <= stageOriginTol*minPole {
 			origin++
 			continue
@@ -253,65 +365,190 @@ func assignZeros(secs []section, zeros, poles []complex128) error {
 		used[bj] = true
 		pairs = append(pairs, mean(math.Abs(imag(z)), math.Abs(imag(zeros[bj]))))
 	}
-	// Second-order sections in descending Q take the nearest zero pair.
-	var second []int
-	for i, s := range secs {
-		if s.order == 2 {
-			second = append(second, i)
+	n2 := 0 // second-order sections
+	for i := range secs {
+		if secs[i].order == 2 {
+			n2++
 		}
 	}
-	if len(pairs) > len(second) {
-		return fmt.Errorf("filter: stages: %d jω zero pairs but only %d second-order sections: %w", len(pairs), len(second), ErrStage)
+	if len(pairs) > n2 {
+		return fmt.Errorf("filter: stages: %d jω zero pairs but only %d second-order sections: %w", len(pairs), n2, ErrStage)
 	}
-	slices.SortStableFunc(second, func(a, b int) int {
-		return cmp.Or(cmp.Compare(secs[b].q, secs[a].q), cmp.Compare(secs[a].w0, secs[b].w0))
-	})
-	for _, i := range second {
-		if len(pairs) == 0 {
-			break
-		}
-		// Nearest by frequency ratio: the metric that does not depend on
-		// the frequency scale.
-		w0 := secs[i].w0
-		best, bk := math.Inf(1), -1
-		for k, wz := range pairs {
-			// bk < 0: take the first when no ratio is finite (w0 or wz
-			// at the ends of the float64 range), so that Validate
-			// reports the section instead of an index panicking.
-			if d := math.Abs(math.Log(wz / w0)); bk < 0 || d < best || math.IsNaN(best) {
-				best, bk = d, k
+	var idxBuf [stackRoots / 2]int
+	idx := idxBuf[:0]
+	if len(secs) > len(idxBuf) {
+		idx = make([]int, 0, len(secs))
+	}
+	if len(pairs) > 0 {
+		// Second-order sections in descending Q (ties in ascending w0, then
+		// in their order) take the nearest zero pair.
+		for i := range secs {
+			if secs[i].order == 2 {
+				idx = append(idx, i)
 			}
 		}
-		secs[i].wz = pairs[bk]
-		pairs = slices.Delete(pairs, bk, bk+1)
+		sortIndices(idx, secs, true)
+		for _, i := range idx {
+			if len(pairs) == 0 {
+				break
+			}
+			bk := nearestRatio(pairs, secs[i].w0)
+			secs[i].wz = pairs[bk]
+			pairs = slices.Delete(pairs, bk, bk+1)
+		}
+	}
+	if origin == 0 {
+		return nil
 	}
 	// Origin zeros: one to each free second-order section, then to the
 	// first-order one, then a second to the second-order sections, each
 	// round in ascending pole frequency.
-	var free2, free1 []int
-	for i, s := range secs {
-		switch {
+	free2, free1 := idx[:0], -1
+	for i := range secs {
+		switch s := &secs[i]; {
 		case s.order == 2 && s.wz == 0:
 			free2 = append(free2, i)
 		case s.order == 1:
-			free1 = append(free1, i)
+			free1 = i // poleSections makes at most one
 		}
 	}
-	byW0 := func(a, b int) int { return cmp.Compare(secs[a].w0, secs[b].w0) }
-	slices.SortStableFunc(free2, byW0)
-	if origin > 2*len(free2)+len(free1) {
+	sortIndices(free2, secs, false)
+	n1 := 0
+	if free1 >= 0 {
+		n1 = 1
+	}
+	if origin > 2*len(free2)+n1 {
 		return fmt.Errorf("filter: stages: %d zeros at the origin, more than the sections can take: %w", origin, ErrStage)
 	}
-	for _, round := range [][]int{free2, free1, free2} {
-		for _, i := range round {
-			if origin == 0 {
-				return nil
-			}
-			secs[i].origin++
-			origin--
+	for _, i := range free2 {
+		if origin == 0 {
+			return nil
 		}
+		secs[i].origin++
+		origin--
+	}
+	if free1 >= 0 && origin > 0 {
+		secs[free1].origin++
+		origin--
+	}
+	for _, i := range free2 {
+		if origin == 0 {
+			return nil
+		}
+		secs[i].origin++
+		origin--
 	}
 	return nil
+}
+
+// ratioMargin is how far apart, relative, two keys max(r, 1/r) of
+// nearestRatio must be for their order to decide that of |ln r| without
+// evaluating the logarithms: far above the rounding of a key (2^−53) and of
+// math.Log (an ulp, at most 2^−43 for |ln r| ≤ 710).
+const ratioMargin = 1e-9
+
+// nearestRatio returns the index k of the pair frequency nearest to w0 by
+// frequency ratio, the least |ln(pairs[k]/w0)|, the first of equals: the
+// metric that does not depend on the frequency scale. ln is monotonic, so
+// max(r, 1/r) (r = pairs[k]/w0, |ln r| = ln max(r, 1/r)) ranks the pairs
+// the same way; where two keys are within ratioMargin of each other, or one
+// is not finite (w0 or a pair frequency at the ends of the float64 range),
+// the logarithms decide, with their ties and NaNs as they fall (a NaN best
+// is replaced; the first is taken when no ratio is finite, so that
+// Validate reports the section instead of an index panicking).
+func nearestRatio(pairs []float64, w0 float64) int {
+	bk, r := 0, pairs[0]/w0
+	key := max(r, 1/r)
+	for k := 1; k < len(pairs); k++ {
+		rk := pairs[k] / w0
+		kk := max(rk, 1/rk)
+		if kk <= math.MaxFloat64 && key <= math.MaxFloat64 {
+			if kk < key*(1-ratioMargin) {
+				bk, r, key = k, rk, kk
+				continue
+			}
+			if kk > key*(1+ratioMargin) {
+				continue
+			}
+		}
+		if best, d := math.Abs(math.Log(r)), math.Abs(math.Log(rk)); d < best || math.IsNaN(best) {
+			bk, r, key = k, rk, kk
+		}
+	}
+	return bk
+}
+
+// sortIndices sorts the indices idx of secs stably: byQ, in descending q
+// and then ascending w0; else in ascending w0 (fcmp's order). Insertion for
+// the few sections of a design, slices.SortStableFunc beyond (both give
+// the one stable order).
+func sortIndices(idx []int, secs []section, byQ bool) {
+	less := func(a, b int) bool {
+		if byQ {
+			if c := fcmp(secs[b].q, secs[a].q); c != 0 {
+				return c < 0
+			}
+		}
+		return fcmp(secs[a].w0, secs[b].w0) < 0
+	}
+	if len(idx) > stackRoots/2 {
+		slices.SortStableFunc(idx, func(a, b int) int {
+			switch {
+			case less(a, b):
+				return -1
+			case less(b, a):
+				return 1
+			}
+			return 0
+		})
+		return
+	}
+	for i := 1; i < len(idx); i++ {
+		x, j := idx[i], i
+		for ; j > 0 && less(x, idx[j-1]); j-- {
+			idx[j] = idx[j-1]
+		}
+		idx[j] = x
+	}
+}
+
+// lesser returns the lesser of a and b, math.Min for the pole magnitudes
+// (never NaN nor −0).
+func lesser(a, b float64) float64 {
+	if b < a {
+		return b
+	}
+	return a
+}
+
+// sortSections sets ord (len(secs) long) to the indices of secs in the
+// cascade order (section.before), stably: insertion for the few sections
+// of a design, slices.SortStableFunc beyond (both give the one stable
+// order). Sorting indices leaves the sections in place, so none is
+// reloaded whole just after assignZeros wrote one of its fields.
+func sortSections(ord []int, secs []section) {
+	for i := range ord {
+		ord[i] = i
+	}
+	if len(secs) > stackRoots/2 {
+		slices.SortStableFunc(ord, func(a, b int) int {
+			switch {
+			case secs[a].before(&secs[b]):
+				return -1
+			case secs[b].before(&secs[a]):
+				return 1
+			}
+			return 0
+		})
+		return
+	}
+	for i := 1; i < len(ord); i++ {
+		x, j := ord[i], i
+		for ; j > 0 && secs[x].before(&secs[ord[j-1]]); j-- {
+			ord[j] = ord[j-1]
+		}
+		ord[j] = x
+	}
 }
 
 // distributeGain sets the stage gains so that the cascade's product is h.
