@@ -302,7 +302,7 @@ func minDesign(f Family, s Spec, design bool) (int, Transfer, error) {
 	}
 	// try designs order n and reports whether it meets the mask; a design
 	// error ends the search.
-	mb := boundsOf(r.rp, r.as)
+	var mb maskBounds // boundsOf(r.rp, r.as), set before the first try
 	try := func(n int) (Transfer, bool, error) {
 		h, err := r.design(s, pl, n)
 		if err != nil {
@@ -321,6 +321,7 @@ func minDesign(f Family, s Spec, design bool) (int, Transfer, error) {
 	}
 	est, closed := r.estimate(pl.sel)
 	if !closed {
+		mb = boundsOf(r.rp, r.as)
 		for n := 1; n <= limit; n++ {
 			h, ok, err := try(n)
 			if err != nil {
@@ -340,6 +341,7 @@ func minDesign(f Family, s Spec, design bool) (int, Transfer, error) {
 	if !design && est-float64(n-1) > stepDownMargin && r.clearWithoutDesign(pl, n) {
 		return n, Transfer{}, nil
 	}
+	mb = boundsOf(r.rp, r.as)
 	h, ok, err := try(n)
 	if err != nil {
 		return 0, Transfer{}, err
@@ -399,8 +401,12 @@ func DesignOrder(f Family, s Spec, n int) (Transfer, error) {
 	return r.design(s, s.plan(), n)
 }
 
-// ex returns a bound on |log2 v| for positive finite v: |log2 v| < ex(v).
+// ex returns a bound on |log2 v| for positive finite v: |log2 v| < ex(v);
+// for zero, infinite or NaN v a bound no range check passes.
 func ex(v float64) int {
+	if !(v > 0 && v <= math.MaxFloat64) {
+		return 1 << 20
+	}
 	_, e := math.Frexp(v)
 	return max(e, -e) + 1
 }
