@@ -61,6 +61,18 @@ type section struct {
 // before reports whether a sorts strictly before b in the cascade order:
 // ascending q, then w0, wz and origin (cmp.Compare's order, NaN first).
 func (a *section) before(b *section) bool {
+	// The usual case, distinct Qs, inline; the rest in tied.
+	if a.q < b.q {
+		return true
+	}
+	if a.q > b.q {
+		return false
+	}
+	return a.tied(b)
+}
+
+// tied is before for Qs equal or not both numbers.
+func (a *section) tied(b *section) bool {
 	if c := fcmp(a.q, b.q); c != 0 {
 		return c < 0
 	}
@@ -441,38 +453,40 @@ func assignZeros(secs []section, zeros []complex128, minPole float64) error {
 	return nil
 }
 
-// ratioMargin is how far apart, relative, two keys max(r, 1/r) of
-// nearestRatio must be for their order to decide that of |ln r| without
-// evaluating the logarithms: far above the rounding of a key (2^−53) and of
-// math.Log (an ulp, at most 2^−43 for |ln r| ≤ 710).
+// ratioMargin is how far apart, relative, two keys of nearestRatio must be
+// for their order to decide that of the logarithms: far above the error of
+// a finite key against max(r, 1/r) (its own rounding and r's, below 2^−50
+// even for a subnormal r, since a finite key bounds r below by 2^−1024)
+// and of math.Log (an ulp, at most 2^−43 for |ln r| ≤ 745).
 const ratioMargin = 1e-9
 
 // nearestRatio returns the index k of the pair frequency nearest to w0 by
 // frequency ratio, the least |ln(pairs[k]/w0)|, the first of equals: the
-// metric that does not depend on the frequency scale. ln is monotonic, so
-// max(r, 1/r) (r = pairs[k]/w0, |ln r| = ln max(r, 1/r)) ranks the pairs
-// the same way; where two keys are within ratioMargin of each other, or one
-// is not finite (w0 or a pair frequency at the ends of the float64 range),
-// the logarithms decide, with their ties and NaNs as they fall (a NaN best
-// is replaced; the first is taken when no ratio is finite, so that
-// Validate reports the section instead of an index panicking).
+// metric that does not depend on the frequency scale. ln is monotonic and
+// |ln r| = ln max(r, 1/r), so the key max(wz, w0)/min(wz, w0), one
+// division, ranks the pairs the same way; where two keys are within
+// ratioMargin of each other, or one is not finite (w0 or a pair frequency
+// at the ends of the float64 range), the logarithms decide, with their ties
+// and NaNs as they fall (a NaN best is replaced; the first is taken when no
+// ratio is finite, so that Validate reports the section instead of an
+// index panicking).
 func nearestRatio(pairs []float64, w0 float64) int {
-	bk, r := 0, pairs[0]/w0
-	key := max(r, 1/r)
+	key := func(wz float64) float64 { return max(wz, w0) / min(wz, w0) }
+	bk, kb := 0, key(pairs[0])
 	for k := 1; k < len(pairs); k++ {
-		rk := pairs[k] / w0
-		kk := max(rk, 1/rk)
-		if kk <= math.MaxFloat64 && key <= math.MaxFloat64 {
-			if kk < key*(1-ratioMargin) {
-				bk, r, key = k, rk, kk
+		kk := key(pairs[k])
+		if kk <= math.MaxFloat64 && kb <= math.MaxFloat64 {
+			if kk < kb*(1-ratioMargin) {
+				bk, kb = k, kk
 				continue
 			}
-			if kk > key*(1+ratioMargin) {
+			if kk > kb*(1+ratioMargin) {
 				continue
 			}
 		}
-		if best, d := math.Abs(math.Log(r)), math.Abs(math.Log(rk)); d < best || math.IsNaN(best) {
-			bk, r, key = k, rk, kk
+		best, d := math.Abs(math.Log(pairs[bk]/w0)), math.Abs(math.Log(pairs[k]/w0))
+		if d < best || math.IsNaN(best) {
+			bk, kb = k, kk
 		}
 	}
 	return bk

@@ -187,7 +187,7 @@ func randomRootsCheck(t *rapid.T) {
 			case 0, 1, 2:
 				zeros = append(zeros, 0)
 			case 3:
-				tiny := minPole * rapid.SampledFrom([]float64{1e-13, 1e-12, 2e-12, 1e-11}).Draw(t, "tinyZero")
+				tiny := minPole * rapid.SampledFrom([]float64{1e-13, 1e-12, 1e-12 * (1 + 1e-11), 1e-12 * (1 + 1e-10), 2e-12, 1e-11}).Draw(t, "tinyZero")
 				zeros = append(zeros, complex(0, tiny), complex(tiny, 0))
 			case 4:
 				zeros = append(zeros, complex(math.Copysign(0, -1), 0))
