@@ -370,8 +370,15 @@ func assignZeros(secs []section, zeros []complex128, minPole float64) error {
 		if math.Abs(real(z)) > stageAxisTol*mag {
 			return fmt.Errorf("filter: stages: zero %v neither on the jω axis nor at the origin: %w", z, ErrStage)
 		}
-		best, bj := nearestConj(zeros, used, i)
-		if bj < 0 || best > stagePairTol*mag {
+		bj := i + 1 // the exact conjugate next to it, distance 0
+		if !(bj < len(zeros) && !used[bj] && zeros[bj] == cmplx.Conj(z)) {
+			var best float64
+			best, bj = nearestConj(zeros, used, i)
+			if best > stagePairTol*mag {
+				bj = -1
+			}
+		}
+		if bj < 0 {
 			return fmt.Errorf("filter: stages: jω-axis zero %v has no conjugate: %w", z, ErrStage)
 		}
 		used[bj] = true
@@ -406,7 +413,12 @@ func assignZeros(secs []section, zeros []complex128, minPole float64) error {
 			}
 			bk := nearestRatio(pairs, secs[i].w0)
 			secs[i].wz = pairs[bk]
-			pairs = slices.Delete(pairs, bk, bk+1)
+			// Delete pairs[bk], keeping the order (a loop: slices.Delete
+			// costs more than the few moves).
+			for j := bk + 1; j < len(pairs); j++ {
+				pairs[j-1] = pairs[j]
+			}
+			pairs = pairs[:len(pairs)-1]
 		}
 	}
 	if origin == 0 {
