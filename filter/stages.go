@@ -241,7 +241,23 @@ func poleSections(secs []section, poles []complex128) (float64, error) {
 		used, reals = make([]bool, len(poles)), make([]float64, 0, len(poles))
 	}
 	minPole := math.Inf(1)
-	for i, p := range poles {
+	// The layout of every design, exact conjugate pairs side by side, in
+	// a loop of its own (what the loop below does with them, without its
+	// bookkeeping); the loop below takes over at the first other root. No
+	// root before start is looked at again (nearestConj looks ahead).
+	start := 0
+	for ; start+1 < len(poles); start += 2 {
+		p := poles[start]
+		if !(real(p) < 0) || imag(p) == 0 || poles[start+1] != cmplx.Conj(p) {
+			break
+		}
+		re := real(p)
+		w0 := math.Hypot(re, math.Abs(imag(p)))
+		minPole = lesser(minPole, w0)
+		add(2, w0, w0/(-2*re))
+	}
+	for i := start; i < len(poles); i++ {
+		p := poles[i]
 		if used[i] {
 			continue
 		}
