@@ -370,7 +370,31 @@ func assignZeros(secs []section, zeros []complex128, minPole float64) error {
 		used, pairs = make([]bool, len(zeros)), make([]float64, 0, len(zeros)/2)
 	}
 	origin := 0
-	for i, z := range zeros {
+	originTol := stageOriginTol * minPole
+	// The layouts of the designs, zeros at the origin and exact conjugate
+	// pairs on the jω axis side by side, in a loop of their own (what the
+	// loop below does with them, without its bookkeeping); the loop below
+	// takes over at the first other zero. No zero before start is looked
+	// at again (nearestConj looks ahead).
+	start := 0
+	for start < len(zeros) {
+		z := zeros[start]
+		if z == 0 { // |z| = 0, at most originTol
+			origin++
+			start++
+			continue
+		}
+		// On the axis, |z| = |im| is above originTol and the pair's mean is
+		// |im|.
+		if w := math.Abs(imag(z)); real(z) == 0 && w > originTol && start+1 < len(zeros) && zeros[start+1] == cmplx.Conj(z) {
+			pairs = append(pairs, w)
+			start += 2
+			continue
+		}
+		break
+	}
+	for i := start; i < len(zeros); i++ {
+		z := zeros[i]
 		if used[i] {
 			continue
 		}
@@ -379,7 +403,7 @@ func assignZeros(secs []section, zeros []complex128, minPole float64) error {
 		if real(z) != 0 {
 			mag = cmplx.Abs(z)
 		}
-		if mag <= stageOriginTol*minPole {
+		if mag <= originTol {
 			origin++
 			continue
 		}
@@ -452,13 +476,18 @@ func assignZeros(secs []section, zeros []complex128, minPole float64) error {
 			free1 = i // poleSections makes at most one
 		}
 	}
-	sortIndices(free2, secs, false)
 	n1 := 0
 	if free1 >= 0 {
 		n1 = 1
 	}
 	if origin > 2*len(free2)+n1 {
 		return fmt.Errorf("filter: stages: %d zeros at the origin, more than the sections can take: %w", origin, ErrStage)
+	}
+	// The order within a round matters only when the zeros run out inside
+	// it (not for a bandpass design, one each, or a highpass one, two).
+	second := origin - len(free2) - n1 // zeros left for the second round
+	if origin < len(free2) || 0 < second && second < len(free2) {
+		sortIndices(free2, secs, false)
 	}
 	for _, i := range free2 {
 		if origin == 0 {
