@@ -130,8 +130,10 @@ func (h Transfer) Stages() ([]Stage, error) { return h.StagesWith(StageOptions{}
 // HighpassStage sections. Zeros at infinity are implicit.
 //
 // Gains follow opt.Gain (see GainPlan). Peaks for GainDynamic are found
-// numerically: a log grid over the span of the poles and zeros (24 points
-// a decade, two decades beyond), points at and around every resonance
+// in closed form for the first stage alone, numerically for the longer
+// cascades: a log grid over the span of the poles and zeros (24 points a
+// decade, 6 a decade from a factor 3 to two decades beyond), points at
+// and around every resonance
 // (Im p ± k·|Re p| and the second-order peak frequencies
 // ω0·√(1 − 1/(2Q²)) and its inverse for highpass), then a refinement by
 // Brent's method of every leading local maximum, to about 1e-12 relative.
@@ -774,6 +776,38 @@ func (p *stagePower) at(w, iw float64) float64 {
 	return n / d
 }
 
+// peak returns the largest value of the unit stage's |H(jω)|² over
+// ω ≥ 0, in closed form (setting the derivative in v = (ω/ω0)² to zero;
+// the algebra is this file's own):
+//
+//   - first order, bandpass, and lowpass and highpass of Q ≤ 1/√2: 1 (at
+//     DC, at infinity, at ω0);
+//   - lowpass and highpass of Q > 1/√2: 1/(β(1 − β/4)), β = 1/Q², at
+//     v = 1 − β/2 (lowpass) or its reciprocal (highpass): the familiar
+//     resonance peak Q/√(1 − 1/(4Q²));
+//   - notch: the largest of 1 (DC), γ² (infinity) and the value at the one
+//     other stationary point, v* = (2 − β − 2γ)/(2 + γ(β − 2)), where
+//     that is positive.
+func (p *stagePower) peak() float64 {
+	if p.order == 1 || p.kind == BandpassStage {
+		return 1
+	}
+	b := p.beta
+	if p.kind != NotchStage {
+		if b >= 2 {
+			return 1
+		}
+		return 1 / (b * (1 - b/4))
+	}
+	g := p.gamma
+	best := max(1, g*g)
+	if v := (2 - b - 2*g) / (2 + g*(b-2)); v > 0 && !math.IsInf(v, 0) {
+		w := p.w0 * math.Sqrt(v)
+		best = max(best, p.at(w, 1/w))
+	}
+	return best
+}
+
 // times sets dst[j] = prev[j]·|H(jω)|² at ω = pts[j] (ipts[j] = 1/ω) for
 // every j, prev nil standing for ones: at over a whole grid, with the
 // stage's kind chosen once rather than per point (the loops are those of
@@ -891,7 +925,8 @@ func cascadePeaks(stages []Stage, h Transfer) []float64 {
 	}
 	var foundBuf [16]float64
 	found := foundBuf[:0] // where this cascade's refined maxima are
-	for k := range n {
+	peaks[0] = math.Sqrt(pw[0].peak())
+	for k := 1; k < n; k++ {
 		cascade := func(w float64) float64 {
 			iw := 1 / w
 			v := 1.0
@@ -952,9 +987,10 @@ func cascadePeaks(stages []Stage, h Transfer) []float64 {
 // each in ascending order (segs holds the end index of each), appended to
 // pts[:0] and segs[:0]:
 //
-//   - 0, a log grid of 24 points a decade from a hundredth of the lowest to
-//     a hundred times the highest pole or zero frequency, and a point far
-//     above (the limit at infinity);
+//   - 0, a log grid from a hundredth of the lowest to a hundred times the
+//     highest pole or zero frequency, 24 points a decade within a factor 3
+//     of the span and 6 a decade beyond, and a point far above (the limit
+//     at infinity);
 //   - for every complex pole pair −α ± jβ, β + c·α/4 for c = −12 … 12 (those
 //     above 0): quarter half-bandwidth steps over three half-bandwidths
 //     each side, so that a partial cascade's peak between two resonances,
@@ -981,20 +1017,42 @@ func peakSegments(h Transfer, pts []float64, segs []int) ([]float64, []int) {
 			lo, hi = math.Min(lo, m), math.Max(hi, m)
 		}
 	}
-	lo, hi = lo/100, hi*100
-	nGrid := int(math.Ceil(24*math.Log10(hi/lo))) + 1
-	if !(nGrid > 1) || nGrid > 1<<16 {
-		nGrid = 2 // a span float64 cannot grid: its ends only
+	// The log grid: 24 points a decade over the span and a factor 3 beyond
+	// it, 6 a decade over the rest of the two decades' reach, where every
+	// pole and zero is a factor 3 or more away, no resonance or notch lies
+	// and the cascade is smooth: a maximum there is still a local maximum
+	// of the coarse points, and is refined.
+	const (
+		inner, outer = 24, 6
+		near         = 3.0   // reach of the dense part past the span
+		far          = 100.0 // reach of the coarse part
+	)
+	nIn := int(math.Ceil(inner*math.Log10((hi*near)/(lo/near)))) + 1
+	nOut := int(math.Ceil(outer * math.Log10(far/near)))
+	if !(nIn > 1) || nIn > 1<<16 {
+		nIn, nOut = 2, 0 // a span float64 cannot grid: its ends only
 	}
-	pts = slices.Grow(pts[:0], nGrid+2+pairs*30)
+	pts = slices.Grow(pts[:0], nIn+2*nOut+2+pairs*30)
 	segs = slices.Grow(segs[:0], 1+2*pairs)
 	pts = append(pts, 0)
-	step := math.Pow(hi/lo, 1/float64(nGrid-1))
-	w := lo
-	for range nGrid {
+	outStep := math.Pow(far/near, 1/float64(nOut))
+	w := lo / far
+	for range nOut {
+		pts = append(pts, w)
+		w *= outStep
+	}
+	step := math.Pow((hi*near)/(lo/near), 1/float64(nIn-1))
+	w = lo / near
+	for range nIn {
 		pts = append(pts, w)
 		w *= step
 	}
+	w = hi * near
+	for range nOut {
+		w *= outStep
+		pts = append(pts, w)
+	}
+	hi *= far
 	pts = append(pts, hi*1e6)
 	segs = append(segs, len(pts))
 	for _, p := range h.Poles {
