@@ -969,7 +969,7 @@ func cascadePeaks(stages []Stage, h Transfer) []float64 {
 						continue next
 					}
 				}
-				x, p := goldenMax(cascade, a, b, pts[j], v)
+				x, p := goldenMax(cascade, a, b, pts[j], v, row[j-1], row[j+1])
 				found = append(found, x)
 				if p > bk {
 					bk = p
@@ -1077,24 +1077,31 @@ func peakSegments(h Transfer, pts []float64, segs []int) ([]float64, []int) {
 }
 
 // goldenMax returns the largest value of g found on [a, b] (g unimodal
-// there, x0 inside with g(x0) = g0 no less than at the ends) by Brent's
-// method, golden-section steps safeguarding parabolic ones (R. P. Brent,
-// Algorithms for Minimization without Derivatives, 1973, ch. 5; from
-// memory of its localmin procedure), started from x0, to 1e-10 relative
-// in x: the value of a smooth peak is then exact to far below 1e-12
-// relative. A smooth peak takes some eight evaluations where golden
-// sections alone take forty.
-func goldenMax(g func(float64) float64, a, b, x0, g0 float64) (xBest, gBest float64) {
+// there, x0 inside with g(x0) = g0 no less than at the ends, ga and gb)
+// by Brent's method, golden-section steps safeguarding parabolic ones
+// (R. P. Brent, Algorithms for Minimization without Derivatives, 1973,
+// ch. 5; from memory of its localmin procedure), started from x0 with the
+// ends as its two previous points, so that its first step is already the
+// parabola through the three grid points; to 1e-10 relative in x: the
+// value of a smooth peak is then exact to far below 1e-12 relative. A
+// smooth peak takes some eight evaluations where golden sections alone
+// take forty.
+func goldenMax(g func(float64) float64, a, b, x0, g0, ga, gb float64) (xBest, gBest float64) {
 	const (
 		cgold = 0.3819660112501051 // 2 − φ
 		rel   = 1e-10
 	)
 	f := func(x float64) float64 { return -g(x) } // minimize −g
 	x := x0
-	w, v := x, x
+	// w: the better end, v: the other (Brent's second-best and previous
+	// points); d and e, the last two steps, the bracket's width, so that
+	// the first two steps may be parabolic.
+	w, v, fw, fv := a, b, -ga, -gb
+	if gb > ga {
+		w, v, fw, fv = b, a, -gb, -ga
+	}
 	fx := -g0
-	fw, fv := fx, fx
-	var d, e float64
+	d, e := b-a, b-a
 	for range 100 {
 		m := (a + b) / 2
 		tol := rel*math.Abs(x) + 1e-300
