@@ -982,6 +982,20 @@ func cascadePeaks(stages []Stage, h Transfer) []float64 {
 	return peaks
 }
 
+// The log grid of peakSegments: peakInner points a decade within a factor
+// peakNear of the span of the poles and zeros, peakOuterN points a factor
+// peakOuterStep apart (6 a decade) from there to a factor peakFar.
+const (
+	peakInner = 24
+	peakNear  = 3.0
+	peakFar   = 100.0
+)
+
+var (
+	peakOuterN    = int(math.Ceil(6 * math.Log10(peakFar/peakNear)))
+	peakOuterStep = math.Pow(peakFar/peakNear, 1/float64(peakOuterN))
+)
+
 // peakSegments returns the frequencies (rad/s) at which a cascade with the
 // poles and zeros of h is searched for its peak, as consecutive segments
 // each in ascending order (segs holds the end index of each), appended to
@@ -1000,62 +1014,17 @@ func cascadePeaks(stages []Stage, h Transfer) []float64 {
 //     resonance peaks ω0·ρ and ω0/ρ either side, ρ = √(1 − 1/(2Q²)), with
 //     ω0·ρ² and ω0/ρ² outside them, so that each is inside its segment.
 //
-// The segments are scanned apart, so no merge or sort is needed and no two
-// points of one segment coincide.
+// The pairs' segments come first, the log grid's last. The segments are
+// scanned apart, so no merge or sort is needed and no two points of one
+// segment coincide.
 func peakSegments(h Transfer, pts []float64, segs []int) ([]float64, []int) {
+	// One pass over the poles: the span, and the segments of the pole
+	// pairs (each magnitude computed once). The log grid follows them.
+	pts, segs = pts[:0], segs[:0]
 	lo, hi := math.Inf(1), 0.0
-	pairs := 0
 	for _, p := range h.Poles {
 		m := cmplx.Abs(p)
-		lo, hi = math.Min(lo, m), math.Max(hi, m)
-		if imag(p) > 0 {
-			pairs++
-		}
-	}
-	for _, z := range h.Zeros {
-		if m := cmplx.Abs(z); m > 0 {
-			lo, hi = math.Min(lo, m), math.Max(hi, m)
-		}
-	}
-	// The log grid: 24 points a decade over the span and a factor 3 beyond
-	// it, 6 a decade over the rest of the two decades' reach, where every
-	// pole and zero is a factor 3 or more away, no resonance or notch lies
-	// and the cascade is smooth: a maximum there is still a local maximum
-	// of the coarse points, and is refined.
-	const (
-		inner, outer = 24, 6
-		near         = 3.0   // reach of the dense part past the span
-		far          = 100.0 // reach of the coarse part
-	)
-	nIn := int(math.Ceil(inner*math.Log10((hi*near)/(lo/near)))) + 1
-	nOut := int(math.Ceil(outer * math.Log10(far/near)))
-	if !(nIn > 1) || nIn > 1<<16 {
-		nIn, nOut = 2, 0 // a span float64 cannot grid: its ends only
-	}
-	pts = slices.Grow(pts[:0], nIn+2*nOut+2+pairs*30)
-	segs = slices.Grow(segs[:0], 1+2*pairs)
-	pts = append(pts, 0)
-	outStep := math.Pow(far/near, 1/float64(nOut))
-	w := lo / far
-	for range nOut {
-		pts = append(pts, w)
-		w *= outStep
-	}
-	step := math.Pow((hi*near)/(lo/near), 1/float64(nIn-1))
-	w = lo / near
-	for range nIn {
-		pts = append(pts, w)
-		w *= step
-	}
-	w = hi * near
-	for range nOut {
-		w *= outStep
-		pts = append(pts, w)
-	}
-	hi *= far
-	pts = append(pts, hi*1e6)
-	segs = append(segs, len(pts))
-	for _, p := range h.Poles {
+		lo, hi = min(lo, m), max(hi, m)
 		re, im := math.Abs(real(p)), imag(p)
 		if !(im > 0) {
 			continue
@@ -1066,13 +1035,51 @@ func peakSegments(h Transfer, pts []float64, segs []int) ([]float64, []int) {
 			}
 		}
 		segs = append(segs, len(pts))
-		m := cmplx.Abs(p)
 		if q := m / (2 * re); q > math.Sqrt2/2 {
 			r := math.Sqrt(1 - 1/(2*q*q))
 			pts = append(pts, m*r*r, m*r, m, m/r, m/r/r)
 			segs = append(segs, len(pts))
 		}
 	}
+	for _, z := range h.Zeros {
+		if z == 0 {
+			continue
+		}
+		if m := cmplx.Abs(z); m > 0 {
+			lo, hi = min(lo, m), max(hi, m)
+		}
+	}
+	// The log grid: 24 points a decade over the span and a factor 3 beyond
+	// it, 6 a decade over the rest of the two decades' reach, where every
+	// pole and zero is a factor 3 or more away, no resonance or notch lies
+	// and the cascade is smooth: a maximum there is still a local maximum
+	// of the coarse points, and is refined.
+	nIn := int(math.Ceil(peakInner*math.Log10((hi*peakNear)/(lo/peakNear)))) + 1
+	nOut, outStep := peakOuterN, peakOuterStep
+	if !(nIn > 1) || nIn > 1<<16 {
+		nIn, nOut = 2, 0 // a span float64 cannot grid: its ends only
+	}
+	pts = slices.Grow(pts, nIn+2*nOut+2)
+	pts = append(pts, 0)
+	w := lo / peakFar
+	for range nOut {
+		pts = append(pts, w)
+		w *= outStep
+	}
+	step := math.Pow((hi*peakNear)/(lo/peakNear), 1/float64(nIn-1))
+	w = lo / peakNear
+	for range nIn {
+		pts = append(pts, w)
+		w *= step
+	}
+	w = hi * peakNear
+	for range nOut {
+		w *= outStep
+		pts = append(pts, w)
+	}
+	hi *= peakFar
+	pts = append(pts, hi*1e6)
+	segs = append(segs, len(pts))
 	return pts, segs
 }
 
