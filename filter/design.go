@@ -178,6 +178,14 @@ func (r resolved) design(s Spec, pl bandPlan, n int) (Transfer, error) {
 			return lp.scaleOwned(2 * math.Pi * pl.edgeHz)
 		}
 		return lp.ToLowpass(pl.edgeHz)
+	}
+	return pl.transform(lp)
+}
+
+// transform maps the normalized lowpass lp to the plan's highpass,
+// bandpass or bandstop (new slices: lp may live in scratch storage).
+func (pl bandPlan) transform(lp Transfer) (Transfer, error) {
+	switch pl.band {
 	case Highpass:
 		return lp.ToHighpass(pl.edgeHz)
 	case Bandpass:
@@ -197,14 +205,7 @@ func (r resolved) chebyshevBand(pl bandPlan, n int) (Transfer, error) {
 	if err != nil {
 		return Transfer{}, err
 	}
-	switch pl.band {
-	case Highpass:
-		return lp.ToHighpass(pl.edgeHz)
-	case Bandpass:
-		return lp.ToBandpass(pl.centerHz, pl.widthHz)
-	default:
-		return lp.ToBandstop(pl.centerHz, pl.widthHz)
-	}
+	return pl.transform(lp)
 }
 
 // maskBounds are a mask's verdict thresholds as magnitudes: the least |H|
