@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/cmplx"
 	"slices"
+	"sort"
 )
 
 // GainPlan says how Stages distributes the overall gain of a transfer
@@ -131,12 +132,15 @@ func (h Transfer) Stages() ([]Stage, error) { return h.StagesWith(StageOptions{}
 //
 // Gains follow opt.Gain (see GainPlan). Peaks for GainDynamic are found
 // in closed form for the first stage alone, numerically for the longer
-// cascades: a log grid over the span of the poles and zeros (24 points a
-// decade, 6 a decade from a factor 3 to two decades beyond), points at
-// and around every resonance
-// (Im p ± k·|Re p| and the second-order peak frequencies
-// ω0·√(1 − 1/(2Q²)) and its inverse for highpass), then a refinement by
-// Brent's method of every leading local maximum, to about 1e-12 relative.
+// cascades: the cascade's magnitude and its slope in log frequency
+// (closed forms per stage) on a log grid over the span of the poles and
+// zeros (12 points a decade, 6 a decade from a factor 3 to two decades
+// beyond) and on steps of half a half-bandwidth around every resonance
+// (Im p + k·|Re p|/2, k = −6 … 6); every interval where the slope falls
+// through zero, either side of every notch zero, and every local maximum
+// of the grid's values brackets a maximum, which Newton's method on the
+// slope refines to about 1e-13 relative. A maximum is missed only if it
+// lies within about a grid step of another turning point of the cascade.
 // The cost grows about as the square of the order (every stage is
 // evaluated on a grid that grows with the number of pole pairs).
 //
@@ -641,7 +645,12 @@ func distributeGain(stages []Stage, h Transfer, plan GainPlan) error {
 		rest = rest.div(complex(unitConst(stages[i]), 0))
 	}
 	if plan == GainDynamic && n > 1 {
-		peakU := cascadePeaks(stages, h)
+		var peakBuf [maxStackStages]float64
+		peakU := peakBuf[:]
+		if n > len(peakBuf) {
+			peakU = make([]float64, n)
+		}
+		peakU = cascadePeaks(stages, h, peakU)
 		// The final output's peak: |rest|·(peak of the unit cascade).
 		peak, err := rest.mul(complex(peakU[n-1], 0)).real("peak gain")
 		if err != nil {
@@ -776,6 +785,68 @@ func (p *stagePower) at(w, iw float64) float64 {
 	return n / d
 }
 
+// slope returns the stage's |H(jω)|² at ω rad/s (iw = 1/ω) with its first
+// and second derivatives in logarithmic frequency: s = d ln|H|²/d ln ω and
+// c = ds/d ln ω. With v the variable of at (v = (ω/ω0)² below ω0, e = +1,
+// or (ω0/ω)² above, e = −1), N and D the numerator and denominator of the
+// form, and σ = v·d(ln N − ln D)/dv:
+//
+//	s = 2e·σ,  c = 4v·dσ/dv  (dv/d ln ω = 2e·v)
+//	−v·D'/D has the derivative −(D' + v·D'')/D + v(D'/D)², D'' = 2 (second
+//	order) or 0 (first order)
+//	N = 1, v², βv, v: σ_N = 0, 2, 1, 1, constant
+//	notch N = (a − bv)²: σ_N = −2bv/(a − bv), dσ_N/dv = −2ab/(a − bv)²
+//
+// (this file's own algebra; TestStagePowerSlope checks it against the
+// differences of at). At ω = 0 and +Inf the forms give their limits.
+func (p *stagePower) slope(w, iw float64) (g, s, c float64) {
+	rl, rh := w*p.iw0, p.w0*iw
+	low := rl <= 1
+	r, e := rh, -2.0
+	if low {
+		r, e = rl, 2
+	}
+	v := r * r
+	if p.order == 1 {
+		id := 1 / (1 + v)
+		sn, n := 1.0, v
+		if low == (p.kind == LowpassStage) {
+			sn, n = 0, 1
+		}
+		return n * id, e * (sn - v*id), -4 * v * id * id
+	}
+	d1 := 1 - v
+	id := 1 / (d1*d1 + p.beta*v)
+	dv := p.beta - 2*d1 // D'
+	q := dv * id
+	sig := -v * q
+	sigv := v*q*q - (dv+2*v)*id
+	var n float64
+	switch p.kind {
+	case LowpassStage, HighpassStage:
+		n = v * v
+		if low == (p.kind == LowpassStage) {
+			n = 1
+		} else {
+			sig += 2
+		}
+	case BandpassStage:
+		n = p.beta * v
+		sig++
+	default: // NotchStage
+		a, b := 1.0, p.gamma
+		if !low {
+			a, b = p.gamma, 1
+		}
+		m := a - b*v
+		n = m * m
+		im := 1 / m
+		sig -= 2 * b * v * im
+		sigv -= 2 * a * b * im * im
+	}
+	return n * id, e * sig, 4 * v * sigv
+}
+
 // peak returns the largest value of the unit stage's |H(jω)|² over
 // ω ≥ 0, in closed form (setting the derivative in v = (ω/ω0)² to zero;
 // the algebra is this file's own):
@@ -808,41 +879,39 @@ func (p *stagePower) peak() float64 {
 	return best
 }
 
-// times sets dst[j] = prev[j]·|H(jω)|² at ω = pts[j] (ipts[j] = 1/ω) for
-// every j, prev nil standing for ones: at over a whole grid, with the
-// stage's kind chosen once rather than per point (the loops are those of
-// at, form for form).
-func (p *stagePower) times(dst, prev, pts, ipts []float64) {
+// accumulate multiplies g[j] by the stage's |H(jω)|² and adds its log
+// slope d ln|H|²/d ln ω to s[j], at ω = pts[j] (ipts[j] = 1/ω), for every
+// j: slope over a whole grid, with the stage's kind chosen once rather than
+// per point (the same forms; the notch's two divisions are one, of D·m).
+// At a notch's zero itself |H|² is 0 and the slope infinite, of either
+// sign (cascadePeaks treats a zero value as a turning point).
+func (p *stagePower) accumulate(g, s, pts, ipts []float64) {
 	ipts = ipts[:len(pts)]
-	dst = dst[:len(pts)]
-	if prev != nil {
-		prev = prev[:len(pts)]
-	}
-	one := func(j int) float64 {
-		if prev == nil {
-			return 1
-		}
-		return prev[j]
-	}
+	g = g[:len(pts)]
+	s = s[:len(pts)]
 	iw0, w0, beta := p.iw0, p.w0, p.beta
-	sel := func(w, iw float64) (v float64, low bool) {
+	// v, e: the variable of the form and dv/d ln ω over v (±2).
+	sel := func(w, iw float64) (v, e float64, low bool) {
 		rl, rh := w*iw0, w0*iw
 		low = rl <= 1
 		r := rh
+		e = -2
 		if low {
-			r = rl
+			r, e = rl, 2
 		}
-		return r * r, low
+		return r * r, e, low
 	}
 	if p.order == 1 {
 		lp := p.kind == LowpassStage
 		for j, w := range pts {
-			v, low := sel(w, ipts[j])
-			n := v
+			v, e, low := sel(w, ipts[j])
+			id := 1 / (1 + v)
+			n, sn := v, 1.0
 			if low == lp {
-				n = 1
+				n, sn = 1, 0
 			}
-			dst[j] = one(j) * (n / (1 + v))
+			g[j] *= n * id
+			s[j] += e * (sn - v*id)
 		}
 		return
 	}
@@ -850,47 +919,67 @@ func (p *stagePower) times(dst, prev, pts, ipts []float64) {
 	case LowpassStage, HighpassStage:
 		lp := p.kind == LowpassStage
 		for j, w := range pts {
-			v, low := sel(w, ipts[j])
+			v, e, low := sel(w, ipts[j])
 			d := 1 - v
-			n := v * v
+			id := 1 / (d*d + beta*v)
+			n, sn := v*v, 2.0
 			if low == lp {
-				n = 1
+				n, sn = 1, 0
 			}
-			dst[j] = one(j) * (n / (d*d + beta*v))
+			g[j] *= n * id
+			s[j] += e * (sn - v*(beta-2*d)*id)
 		}
 	case BandpassStage:
 		for j, w := range pts {
-			v, _ := sel(w, ipts[j])
+			v, e, _ := sel(w, ipts[j])
 			d := 1 - v
-			dst[j] = one(j) * (beta * v / (d*d + beta*v))
+			id := 1 / (d*d + beta*v)
+			g[j] *= beta * v * id
+			s[j] += e * (1 - v*(beta-2*d)*id)
 		}
 	default: // NotchStage
-		g := p.gamma
+		gm := p.gamma
 		for j, w := range pts {
-			v, low := sel(w, ipts[j])
-			a, b := 1.0, g
+			v, e, low := sel(w, ipts[j])
+			a, b := 1.0, gm
 			if !low {
-				a, b = g, 1
+				a, b = gm, 1
 			}
 			d := 1 - v
-			n := a - b*v
-			dst[j] = one(j) * (n * n / (d*d + beta*v))
+			dd := d*d + beta*v
+			m := a - b*v
+			r := 1 / (dd * m)
+			if m == 0 {
+				g[j] = 0
+				s[j] = math.Inf(1)
+				continue
+			}
+			id := m * r
+			g[j] *= m * m * id
+			s[j] += e * (-2*b*v*dd*r - v*(beta-2*d)*id)
 		}
 	}
 }
 
 // maxStackStages is the number of stages whose powers cascadePeaks keeps on
-// the stack.
-const maxStackStages = 16
+// the stack, and maxStackPoints the grid size it keeps there.
+const (
+	maxStackStages = 16
+	maxStackPoints = 160
+)
 
-// cascadePeaks returns, for k = 0 … len(stages)−1, the peak over ω ≥ 0 of
-// |Π_{i≤k} unit stage i (jω)|, h giving the poles and zeros that set the
-// search grid (peakSegments). Every segment of the grid is scanned with
-// the cascades' squared magnitudes as running products, and every local
-// maximum inside a segment within a factor 4 of the best value found is
-// refined by goldenMax between its neighbours.
-func cascadePeaks(stages []Stage, h Transfer) []float64 {
+// cascadePeaks sets peaks[k], k = 0 … len(stages)−1, to the peak over
+// ω ≥ 0 of |Π_{i≤k} unit stage i (jω)|, h giving the poles and zeros that
+// set the search grid (peakSegments), and returns peaks. The cascades'
+// squared magnitudes and log slopes on the grid are running products and
+// sums, one stage at a time (accumulate). Between two neighbouring points
+// of a segment where the slope falls from positive to negative the cascade
+// has a local maximum; each such one within a factor 4 of the best grid
+// value is refined by refineMax. Every maximum is thus found that lies
+// further than the grid's step from the cascade's other turning points.
+func cascadePeaks(stages []Stage, h Transfer, peaks []float64) []float64 {
 	n := len(stages)
+	peaks = peaks[:n]
 	var pwBuf [maxStackStages]stagePower
 	pw := pwBuf[:0]
 	if n > maxStackStages {
@@ -899,96 +988,174 @@ func cascadePeaks(stages []Stage, h Transfer) []float64 {
 	for _, s := range stages {
 		pw = append(pw, newStagePower(s))
 	}
-	var ptsBuf [512]float64
+	peaks[0] = math.Sqrt(pw[0].peak())
+	if n == 1 {
+		return peaks
+	}
+	var ptsBuf, iptsBuf, gBuf, sBuf [maxStackPoints]float64
 	var segsBuf [64]int
 	pts, segs := peakSegments(h, ptsBuf[:0], segsBuf[:0])
 	np := len(pts)
-	// run[k*np+j]: squared magnitude of the cascade up to stage k at
-	// pts[j]; the last np values hold 1/pts[j].
-	var runBuf [2048]float64
-	run := runBuf[:]
-	if need := (n + 1) * np; need <= len(runBuf) {
-		run = runBuf[:need]
-	} else {
-		run = make([]float64, need)
+	ipts, g, s := iptsBuf[:], gBuf[:], sBuf[:]
+	if np > maxStackPoints {
+		ipts, g, s = make([]float64, np), make([]float64, np), make([]float64, np)
 	}
-	ipts := run[n*np:]
+	ipts, g, s = ipts[:np], g[:np], s[:np]
 	for j, w := range pts {
 		ipts[j] = 1 / w
+		g[j], s[j] = 1, 0
 	}
-	peaks := make([]float64, n)
-	var prev []float64
-	for k := range pw {
-		row := run[k*np : (k+1)*np]
-		pw[k].times(row, prev, pts, ipts)
-		prev = row
-	}
+	pw[0].accumulate(g, s, pts, ipts)
+	// Where the notch zeros fall in each segment: a zero is a turning
+	// point, where the slope goes from −∞ to +∞, which a grid point on or
+	// next to it would hide (its slope has the sign of its side).
+	var zsBuf [64]zeroSlot
+	zs := zeroSlots(zsBuf[:0], pw, pts, segs)
+	var candBuf [64]bracket
+	var peakAtBuf [64]int
 	var foundBuf [16]float64
-	found := foundBuf[:0] // where this cascade's refined maxima are
-	peaks[0] = math.Sqrt(pw[0].peak())
+	inf := math.Inf(1)
 	for k := 1; k < n; k++ {
-		cascade := func(w float64) float64 {
-			iw := 1 / w
-			v := 1.0
-			for i := range k + 1 {
-				v *= pw[i].at(w, iw)
-			}
-			return v
-		}
-		row := run[k*np : (k+1)*np]
-		// Four running maxima (independent chains, the builtin max keeping a
-		// NaN, which the forms do not give, to end in ErrRange).
-		var m4 [4]float64
-		j := 0
-		for ; j+4 <= np; j += 4 {
-			m4[0], m4[1] = max(m4[0], row[j]), max(m4[1], row[j+1])
-			m4[2], m4[3] = max(m4[2], row[j+2]), max(m4[3], row[j+3])
-		}
-		for ; j < np; j++ {
-			m4[0] = max(m4[0], row[j])
-		}
-		bk := max(m4[0], m4[1], m4[2], m4[3])
+		pw[k].accumulate(g, s, pts, ipts)
+		// One pass: the best grid value, and the intervals of each segment
+		// where the slope falls through zero.
+		cand, peaksAt := candBuf[:0], peakAtBuf[:0]
+		bk := 0.0
 		lo := 0
-		found = found[:0]
 		for _, hi := range segs {
-		next:
-			for j := lo + 1; j < hi-1; j++ {
-				// A local maximum within a factor 4 of the best: one
-				// comparison, rarely true, instead of three branches.
-				v := row[j]
-				if v < max(bk/4, row[j-1], row[j+1]) {
-					continue
+			bk = max(bk, g[hi-1])
+			for j := lo; j < hi-1; j++ {
+				v := g[j]
+				if v > bk {
+					bk = v
 				}
-				// A bracket holding a maximum already refined (found by
-				// another segment) is skipped: goldenMax takes the cascade
-				// to be unimodal on its bracket, so it would return that
-				// maximum again.
-				a, b := pts[j-1], pts[j+1]
-				for _, x := range found {
-					if a < x && x < b {
-						continue next
-					}
+				if s[j] > 0 && s[j+1] < 0 {
+					cand = append(cand, bracket{pts[j], pts[j+1], s[j], s[j+1], v, g[j+1]})
 				}
-				x, p := goldenMax(cascade, a, b, pts[j], v, row[j-1], row[j+1])
-				found = append(found, x)
-				if p > bk {
-					bk = p
+				if j > lo && v >= g[j-1] && v >= g[j+1] {
+					peaksAt = append(peaksAt, j)
 				}
 			}
 			lo = hi
+		}
+		// Either side of each notch zero of the cascade's stages.
+		for _, z := range zs {
+			if z.stage > k {
+				continue
+			}
+			if l := z.l; s[l] > 0 {
+				cand = append(cand, bracket{pts[l], z.w, s[l], -inf, g[l], 0})
+			}
+			if r := z.r; s[r] < 0 {
+				cand = append(cand, bracket{z.w, pts[r], inf, s[r], 0, g[r]})
+			}
+		}
+		found := foundBuf[:0] // where this cascade's refined maxima are
+	next:
+		for _, c := range cand {
+			gab := max(c.ga, c.gb)
+			if gab < bk/4 {
+				continue
+			}
+			// A bracket holding a maximum already refined (found from
+			// another segment) is skipped: refineMax would return that
+			// maximum again.
+			for _, x := range found {
+				if c.a <= x && x <= c.b {
+					continue next
+				}
+			}
+			// Newton's start: the chord's zero, a twentieth of the bracket
+			// or more from its ends (an end at a notch's zero has a slope
+			// of any size).
+			t := c.sa / (c.sa - c.sb)
+			if !(t >= 0.05) {
+				t = 0.05
+			} else if !(t <= 0.95) {
+				t = 0.95
+			}
+			xb := c.a
+			if c.gb > c.ga {
+				xb = c.b
+			}
+			x, p := refineMax(pw[:k+1], c.a, c.b, c.a+t*(c.b-c.a), xb, gab)
+			found = append(found, x)
+			bk = max(bk, p)
+		}
+		// The grid's own local maxima, between their neighbours (a maximum
+		// beside a grid point, with a turning point between it and the
+		// next, is bracketed so and not by the slope's signs).
+	nextPeak:
+		for _, j := range peaksAt {
+			v := g[j]
+			if v < bk/4 {
+				continue
+			}
+			a, b := pts[j-1], pts[j+1]
+			for _, x := range found {
+				if a <= x && x <= b {
+					continue nextPeak
+				}
+			}
+			x, p := refineMax(pw[:k+1], a, b, pts[j], pts[j], v)
+			found = append(found, x)
+			bk = max(bk, p)
 		}
 		peaks[k] = math.Sqrt(bk)
 	}
 	return peaks
 }
 
-// The log grid of peakSegments: peakInner points a decade within a factor
+// bracket is an interval (a, b) of the peak grid where a cascade's log
+// slope falls from sa > 0 to sb < 0, with the cascade's values at its ends.
+type bracket struct{ a, b, sa, sb, ga, gb float64 }
+
+// zeroSlot places the notch zero of stage (w rad/s) in a segment of the
+// peak grid: pts[l] < w < pts[r], the neighbours either side more than
+// 1e-9 relative from it (a point on the zero, up to rounding, has a slope
+// of either sign).
+type zeroSlot struct {
+	stage, l, r int
+	w           float64
+}
+
+// zeroSlots appends to dst the slot of every notch stage's zero in every
+// segment of pts (segs as from peakSegments) that spans it.
+func zeroSlots(dst []zeroSlot, pw []stagePower, pts []float64, segs []int) []zeroSlot {
+	for i := range pw {
+		if pw[i].kind != NotchStage || pw[i].order != 2 {
+			continue
+		}
+		w := pw[i].w0 / math.Sqrt(pw[i].gamma)
+		wl, wr := w*(1-1e-9), w*(1+1e-9)
+		lo := 0
+		for _, hi := range segs {
+			seg := pts[lo:hi]
+			l := sort.SearchFloat64s(seg, wl) - 1 // the last point below wl
+			r := l + 1
+			for r < len(seg) && seg[r] <= wr {
+				r++
+			}
+			if l >= 0 && r < len(seg) {
+				dst = append(dst, zeroSlot{i, lo + l, lo + r, w})
+			}
+			lo = hi
+		}
+	}
+	return dst
+}
+
+// The grid of peakSegments: peakInner points a decade within a factor
 // peakNear of the span of the poles and zeros, peakOuterN points a factor
-// peakOuterStep apart (6 a decade) from there to a factor peakFar.
+// peakOuterStep apart (6 a decade) from there to a factor peakFar; around
+// every complex pole pair, steps of a pairStep-th of its half-bandwidth,
+// pairSteps of them each side.
 const (
-	peakInner = 24
+	peakInner = 12
 	peakNear  = 3.0
 	peakFar   = 100.0
+	pairStep  = 2
+	pairSteps = 6
 )
 
 var (
@@ -1001,45 +1168,41 @@ var (
 // each in ascending order (segs holds the end index of each), appended to
 // pts[:0] and segs[:0]:
 //
+//   - for every complex pole pair −α ± jβ, β + c·α/2 for c = −6 … 6 (those
+//     above 0): half half-bandwidth steps over three half-bandwidths each
+//     side, where a resonance's slope changes fastest;
 //   - 0, a log grid from a hundredth of the lowest to a hundred times the
-//     highest pole or zero frequency, 24 points a decade within a factor 3
+//     highest pole or zero frequency, 12 points a decade within a factor 3
 //     of the span and 6 a decade beyond, and a point far above (the limit
-//     at infinity);
-//   - for every complex pole pair −α ± jβ, β + c·α/4 for c = −12 … 12 (those
-//     above 0): quarter half-bandwidth steps over three half-bandwidths
-//     each side, so that a partial cascade's peak between two resonances,
-//     beside a dip, is bracketed (coarser steps let such a peak, 1e-5 above
-//     its neighbours, slip between them);
-//   - for the same pair, for Q above 1/√2, its pole frequency ω0 and the
-//     resonance peaks ω0·ρ and ω0/ρ either side, ρ = √(1 − 1/(2Q²)), with
-//     ω0·ρ² and ω0/ρ² outside them, so that each is inside its segment.
+//     at infinity).
 //
 // The pairs' segments come first, the log grid's last. The segments are
 // scanned apart, so no merge or sort is needed and no two points of one
-// segment coincide.
+// segment coincide. cascadePeaks finds every maximum of a cascade that
+// lies further than about a step of this grid from its other turning
+// points; the tests pass with the grid at half this density, and fail at a
+// third of it (see DEVELOPERS.md).
 func peakSegments(h Transfer, pts []float64, segs []int) ([]float64, []int) {
 	// One pass over the poles: the span, and the segments of the pole
 	// pairs (each magnitude computed once). The log grid follows them.
 	pts, segs = pts[:0], segs[:0]
 	lo, hi := math.Inf(1), 0.0
 	for _, p := range h.Poles {
-		m := cmplx.Abs(p)
-		lo, hi = min(lo, m), max(hi, m)
 		re, im := math.Abs(real(p)), imag(p)
+		if im < 0 {
+			continue // the conjugate of a pole of the list, the same magnitude
+		}
+		m := math.Hypot(re, im)
+		lo, hi = min(lo, m), max(hi, m)
 		if !(im > 0) {
 			continue
 		}
-		for c := -12; c <= 12; c++ {
-			if w := im + float64(c)/4*re; w > 0 {
+		for c := -pairSteps; c <= pairSteps; c++ {
+			if w := im + float64(c)/pairStep*re; w > 0 {
 				pts = append(pts, w)
 			}
 		}
 		segs = append(segs, len(pts))
-		if q := m / (2 * re); q > math.Sqrt2/2 {
-			r := math.Sqrt(1 - 1/(2*q*q))
-			pts = append(pts, m*r*r, m*r, m, m/r, m/r/r)
-			segs = append(segs, len(pts))
-		}
 	}
 	for _, z := range h.Zeros {
 		if z == 0 {
@@ -1049,12 +1212,13 @@ func peakSegments(h Transfer, pts []float64, segs []int) ([]float64, []int) {
 			lo, hi = min(lo, m), max(hi, m)
 		}
 	}
-	// The log grid: 24 points a decade over the span and a factor 3 beyond
+	// The log grid: 12 points a decade over the span and a factor 3 beyond
 	// it, 6 a decade over the rest of the two decades' reach, where every
 	// pole and zero is a factor 3 or more away, no resonance or notch lies
-	// and the cascade is smooth: a maximum there is still a local maximum
-	// of the coarse points, and is refined.
-	nIn := int(math.Ceil(peakInner*math.Log10((hi*peakNear)/(lo/peakNear)))) + 1
+	// and the cascade is smooth: a maximum there is still bracketed by the
+	// coarse points, and is refined.
+	lr := math.Log((hi * peakNear) / (lo / peakNear))
+	nIn := int(math.Ceil(peakInner*lr/math.Ln10)) + 1
 	nOut, outStep := peakOuterN, peakOuterStep
 	if !(nIn > 1) || nIn > 1<<16 {
 		nIn, nOut = 2, 0 // a span float64 cannot grid: its ends only
@@ -1066,7 +1230,7 @@ func peakSegments(h Transfer, pts []float64, segs []int) ([]float64, []int) {
 		pts = append(pts, w)
 		w *= outStep
 	}
-	step := math.Pow((hi*peakNear)/(lo/peakNear), 1/float64(nIn-1))
+	step := math.Exp(lr / float64(nIn-1))
 	w = lo / peakNear
 	for range nIn {
 		pts = append(pts, w)
@@ -1083,91 +1247,53 @@ func peakSegments(h Transfer, pts []float64, segs []int) ([]float64, []int) {
 	return pts, segs
 }
 
-// goldenMax returns the largest value of g found on [a, b] (g unimodal
-// there, x0 inside with g(x0) = g0 no less than at the ends, ga and gb)
-// by Brent's method, golden-section steps safeguarding parabolic ones
-// (R. P. Brent, Algorithms for Minimization without Derivatives, 1973,
-// ch. 5; from memory of its localmin procedure), started from x0 with the
-// ends as its two previous points, so that its first step is already the
-// parabola through the three grid points; to 1e-10 relative in x: the
-// value of a smooth peak is then exact to far below 1e-12 relative. A
-// smooth peak takes some eight evaluations where golden sections alone
-// take forty.
-func goldenMax(g func(float64) float64, a, b, x0, g0, ga, gb float64) (xBest, gBest float64) {
-	const (
-		cgold = 0.3819660112501051 // 2 − φ
-		rel   = 1e-10
-	)
-	f := func(x float64) float64 { return -g(x) } // minimize −g
-	x := x0
-	// w: the better end, v: the other (Brent's second-best and previous
-	// points); d and e, the last two steps, the bracket's width, so that
-	// the first two steps may be parabolic.
-	w, v, fw, fv := a, b, -ga, -gb
-	if gb > ga {
-		w, v, fw, fv = b, a, -gb, -ga
-	}
-	fx := -g0
-	d, e := b-a, b-a
+// peakRise is where refineMax stops: when the rise of ln|H|² to the
+// nearby stationary point that Newton's quadratic model predicts,
+// s²/(2|c|), is below it, so that the value found is within about 1e-13
+// relative of the local maximum's.
+const peakRise = 1e-13
+
+// refineMax returns the largest value of the cascade |H|² = Π pw[i] (and
+// where it is) found on (a, b), which holds a local maximum, starting from
+// x inside; xb is where the largest value known so far, gb, is. Newton's
+// method on the log slope s = d ln|H|²/d ln ω (stagePower.slope) finds the
+// zero of s where it falls through 0: each evaluation narrows (a, b) by
+// the sign of s, so that it still holds a maximum, and a step that would
+// leave it, or one from a point of convex log-magnitude, bisects it
+// instead. A smooth maximum takes three or four evaluations.
+func refineMax(pw []stagePower, a, b, x, xb, gb float64) (xBest, gBest float64) {
+	xBest, gBest = xb, gb
 	for range 100 {
-		m := (a + b) / 2
-		tol := rel*math.Abs(x) + 1e-300
-		if math.Abs(x-m) <= 2*tol-(b-a)/2 {
-			break
+		if !(a < x && x < b) {
+			return xBest, gBest // (a, b) as narrow as float64 holds
 		}
-		parabolic := false
-		if math.Abs(e) > tol {
-			r := (x - w) * (fx - fv)
-			q := (x - v) * (fx - fw)
-			p := (x-v)*q - (x-w)*r
-			q = 2 * (q - r)
-			if q > 0 {
-				p = -p
-			} else {
-				q = -q
-			}
-			if math.Abs(p) < math.Abs(q*e/2) && p > q*(a-x) && p < q*(b-x) {
-				e, d = d, p/q
-				parabolic = true
-				if u := x + d; u-a < 2*tol || b-u < 2*tol {
-					d = math.Copysign(tol, m-x)
-				}
-			}
+		iw := 1 / x
+		g, s, c := 1.0, 0.0, 0.0
+		for i := range pw {
+			gi, si, ci := pw[i].slope(x, iw)
+			g *= gi
+			s += si
+			c += ci
 		}
-		if !parabolic {
-			if x < m {
-				e = b - x
-			} else {
-				e = a - x
-			}
-			d = cgold * e
+		if g > gBest {
+			xBest, gBest = x, g
 		}
-		u := x + d
-		if math.Abs(d) < tol {
-			u = x + math.Copysign(tol, d)
+		switch {
+		case s > 0:
+			a = x
+		case s < 0:
+			b = x
+		default:
+			return xBest, gBest
 		}
-		fu := f(u)
-		if fu <= fx {
-			if u < x {
-				b = x
-			} else {
-				a = x
-			}
-			v, fv, w, fw, x, fx = w, fw, x, fx, u, fu
-		} else {
-			if u < x {
-				a = u
-			} else {
-				b = u
-			}
-			if fu <= fw || w == x {
-				v, fv, w, fw = w, fw, u, fu
-			} else if fu <= fv || v == x || v == w {
-				v, fv = u, fu
-			}
+		if c < 0 && s*s <= -2*peakRise*c {
+			return xBest, gBest
 		}
+		next := x * (1 - s/c)
+		if !(c < 0) || !(a < next && next < b) {
+			next = a + (b-a)/2
+		}
+		x = next
 	}
-	// x is the best point evaluated (the bracket's ends, grid points
-	// already searched, are no better than x0).
-	return x, -fx
+	return xBest, gBest
 }
