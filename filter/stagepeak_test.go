@@ -1,6 +1,7 @@
 package filter
 
 import (
+	"errors"
 	"math"
 	"math/cmplx"
 	"slices"
@@ -141,6 +142,64 @@ func TestCascadePeaksReference(t *testing.T) {
 			want := peakMag(h, func(w float64) float64 { return cmplx.Abs(cascade(unit, k+1, w/(2*math.Pi))) })
 			if math.Abs(got[k]-want) > 1e-11*want {
 				t.Fatalf("%d stages: cascade of %d peaks at %.15g, reference %.15g (%.3g relative)", len(unit), k+1, got[k], want, got[k]/want-1)
+			}
+		}
+	})
+}
+
+// genTransfer draws a transfer function no family designs: one to four
+// pole pairs of Q 0.3 to 30 over two decades, maybe a real pole, jω zero
+// pairs for up to all the pairs and up to two zeros at the origin, for
+// peaks the families' designs do not make (resonances close together,
+// notches between them, lowpass and highpass sections mixed).
+func genTransfer(t *rapid.T) Transfer {
+	var h Transfer
+	pairs := rapid.IntRange(1, 4).Draw(t, "pairs")
+	for i := range pairs {
+		w0 := math.Exp(rapid.Float64Range(0, math.Log(100)).Draw(t, "lnW0"+itoa(i)))
+		q := math.Exp(rapid.Float64Range(math.Log(0.3), math.Log(30)).Draw(t, "lnQ"+itoa(i)))
+		re := -w0 / (2 * q)
+		im := math.Sqrt(w0*w0 - re*re)
+		if !(im > 0) {
+			t.Skip("a real pair")
+		}
+		h.Poles = append(h.Poles, complex(re, im), complex(re, -im))
+	}
+	if rapid.Bool().Draw(t, "real") {
+		h.Poles = append(h.Poles, complex(-math.Exp(rapid.Float64Range(0, math.Log(100)).Draw(t, "lnReal")), 0))
+	}
+	for i := range rapid.IntRange(0, pairs).Draw(t, "notches") {
+		wz := math.Exp(rapid.Float64Range(-1, math.Log(100)+1).Draw(t, "lnWz"+itoa(i)))
+		h.Zeros = append(h.Zeros, complex(0, wz), complex(0, -wz))
+	}
+	for range rapid.IntRange(0, 2).Draw(t, "origin") {
+		h.Zeros = append(h.Zeros, 0)
+	}
+	h.Gain = 1
+	return h
+}
+
+// TestCascadePeaksOutside is TestCascadePeaksReference for the transfer
+// functions of genTransfer.
+func TestCascadePeaksOutside(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		h := genTransfer(t)
+		stages, err := h.StagesWith(StageOptions{Gain: GainLast})
+		if errors.Is(err, ErrStage) {
+			t.Skip(err) // more zeros than the stages can take
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		unit := slices.Clone(stages)
+		for i := range unit {
+			unit[i].Gain = 1
+		}
+		got := cascadePeaks(unit, h, make([]float64, len(unit)))
+		for k := range unit {
+			want := peakMag(h, func(w float64) float64 { return cmplx.Abs(cascade(unit, k+1, w/(2*math.Pi))) })
+			if math.Abs(got[k]-want) > 1e-11*want {
+				t.Fatalf("%v: cascade of %d peaks at %.15g, reference %.15g (%.3g relative)", unit, k+1, got[k], want, got[k]/want-1)
 			}
 		}
 	})

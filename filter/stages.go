@@ -6,7 +6,6 @@ import (
 	"math"
 	"math/cmplx"
 	"slices"
-	"sort"
 )
 
 // GainPlan says how Stages distributes the overall gain of a transfer
@@ -882,9 +881,9 @@ func (p *stagePower) peak() float64 {
 // accumulate multiplies g[j] by the stage's |H(jω)|² and adds its log
 // slope d ln|H|²/d ln ω to s[j], at ω = pts[j] (ipts[j] = 1/ω), for every
 // j: slope over a whole grid, with the stage's kind chosen once rather than
-// per point (the same forms; the notch's two divisions are one, of D·m).
-// At a notch's zero itself |H|² is 0 and the slope infinite, of either
-// sign (cascadePeaks treats a zero value as a turning point).
+// per point (the same forms as at and slope). At a notch's zero itself
+// |H|² is 0 and the slope infinite, of either sign (cascadePeaks brackets
+// either side of every notch zero apart).
 func (p *stagePower) accumulate(g, s, pts, ipts []float64) {
 	ipts = ipts[:len(pts)]
 	g = g[:len(pts)]
@@ -946,17 +945,11 @@ func (p *stagePower) accumulate(g, s, pts, ipts []float64) {
 				a, b = gm, 1
 			}
 			d := 1 - v
-			dd := d*d + beta*v
+			id := 1 / (d*d + beta*v)
 			m := a - b*v
-			r := 1 / (dd * m)
-			if m == 0 {
-				g[j] = 0
-				s[j] = math.Inf(1)
-				continue
-			}
-			id := m * r
+			im := 1 / m
 			g[j] *= m * m * id
-			s[j] += e * (-2*b*v*dd*r - v*(beta-2*d)*id)
+			s[j] += e * (-2*b*v*im - v*(beta-2*d)*id)
 		}
 	}
 }
@@ -1009,17 +1002,17 @@ func cascadePeaks(stages []Stage, h Transfer, peaks []float64) []float64 {
 	// Where the notch zeros fall in each segment: a zero is a turning
 	// point, where the slope goes from −∞ to +∞, which a grid point on or
 	// next to it would hide (its slope has the sign of its side).
-	var zsBuf [64]zeroSlot
+	var zsBuf [32]zeroSlot
 	zs := zeroSlots(zsBuf[:0], pw, pts, segs)
-	var candBuf [64]bracket
-	var peakAtBuf [64]int
+	var fallBuf, peakAtBuf [32]int
 	var foundBuf [16]float64
 	inf := math.Inf(1)
 	for k := 1; k < n; k++ {
 		pw[k].accumulate(g, s, pts, ipts)
-		// One pass: the best grid value, and the intervals of each segment
-		// where the slope falls through zero.
-		cand, peaksAt := candBuf[:0], peakAtBuf[:0]
+		// One pass: the best grid value, the intervals of each segment
+		// where the slope falls through zero (j for pts[j], pts[j+1]), and
+		// the grid's local maxima.
+		falls, peaksAt := fallBuf[:0], peakAtBuf[:0]
 		bk := 0.0
 		lo := 0
 		for _, hi := range segs {
@@ -1030,7 +1023,7 @@ func cascadePeaks(stages []Stage, h Transfer, peaks []float64) []float64 {
 					bk = v
 				}
 				if s[j] > 0 && s[j+1] < 0 {
-					cand = append(cand, bracket{pts[j], pts[j+1], s[j], s[j+1], v, g[j+1]})
+					falls = append(falls, j)
 				}
 				if j > lo && v >= g[j-1] && v >= g[j+1] {
 					peaksAt = append(peaksAt, j)
@@ -1038,77 +1031,64 @@ func cascadePeaks(stages []Stage, h Transfer, peaks []float64) []float64 {
 			}
 			lo = hi
 		}
+		found := foundBuf[:0] // where this cascade's refined maxima are
+		// refine refines the maximum in (a, b) from x (gb: the larger of
+		// the values at the ends), unless gb is below a quarter of the
+		// best value or (a, b) holds a maximum already refined (from
+		// another segment; refineMax would return it again).
+		refine := func(a, b, x, gb float64) {
+			if gb < bk/4 {
+				return
+			}
+			for _, x := range found {
+				if a <= x && x <= b {
+					return
+				}
+			}
+			x, p := refineMax(pw[:k+1], a, b, x, gb)
+			found = append(found, x)
+			bk = max(bk, p)
+		}
+		for _, j := range falls {
+			a, b := pts[j], pts[j+1]
+			refine(a, b, chordZero(a, b, s[j], s[j+1]), max(g[j], g[j+1]))
+		}
 		// Either side of each notch zero of the cascade's stages.
 		for _, z := range zs {
 			if z.stage > k {
 				continue
 			}
 			if l := z.l; s[l] > 0 {
-				cand = append(cand, bracket{pts[l], z.w, s[l], -inf, g[l], 0})
+				refine(pts[l], z.w, chordZero(pts[l], z.w, s[l], -inf), g[l])
 			}
 			if r := z.r; s[r] < 0 {
-				cand = append(cand, bracket{z.w, pts[r], inf, s[r], 0, g[r]})
+				refine(z.w, pts[r], chordZero(z.w, pts[r], inf, s[r]), g[r])
 			}
-		}
-		found := foundBuf[:0] // where this cascade's refined maxima are
-	next:
-		for _, c := range cand {
-			gab := max(c.ga, c.gb)
-			if gab < bk/4 {
-				continue
-			}
-			// A bracket holding a maximum already refined (found from
-			// another segment) is skipped: refineMax would return that
-			// maximum again.
-			for _, x := range found {
-				if c.a <= x && x <= c.b {
-					continue next
-				}
-			}
-			// Newton's start: the chord's zero, a twentieth of the bracket
-			// or more from its ends (an end at a notch's zero has a slope
-			// of any size).
-			t := c.sa / (c.sa - c.sb)
-			if !(t >= 0.05) {
-				t = 0.05
-			} else if !(t <= 0.95) {
-				t = 0.95
-			}
-			xb := c.a
-			if c.gb > c.ga {
-				xb = c.b
-			}
-			x, p := refineMax(pw[:k+1], c.a, c.b, c.a+t*(c.b-c.a), xb, gab)
-			found = append(found, x)
-			bk = max(bk, p)
 		}
 		// The grid's own local maxima, between their neighbours (a maximum
 		// beside a grid point, with a turning point between it and the
 		// next, is bracketed so and not by the slope's signs).
-	nextPeak:
 		for _, j := range peaksAt {
-			v := g[j]
-			if v < bk/4 {
-				continue
-			}
-			a, b := pts[j-1], pts[j+1]
-			for _, x := range found {
-				if a <= x && x <= b {
-					continue nextPeak
-				}
-			}
-			x, p := refineMax(pw[:k+1], a, b, pts[j], pts[j], v)
-			found = append(found, x)
-			bk = max(bk, p)
+			refine(pts[j-1], pts[j+1], pts[j], g[j])
 		}
 		peaks[k] = math.Sqrt(bk)
 	}
 	return peaks
 }
 
-// bracket is an interval (a, b) of the peak grid where a cascade's log
-// slope falls from sa > 0 to sb < 0, with the cascade's values at its ends.
-type bracket struct{ a, b, sa, sb, ga, gb float64 }
+// chordZero returns where the chord of the slope through (a, sa) and
+// (b, sb), sa > 0 > sb, crosses zero, kept a twentieth of the interval or
+// more from its ends (an end at a notch's zero has a slope of any size):
+// Newton's start in refineMax.
+func chordZero(a, b, sa, sb float64) float64 {
+	t := sa / (sa - sb)
+	if !(t >= 0.05) {
+		t = 0.05
+	} else if !(t <= 0.95) {
+		t = 0.95
+	}
+	return a + t*(b-a)
+}
 
 // zeroSlot places the notch zero of stage (w rad/s) in a segment of the
 // peak grid: pts[l] < w < pts[r], the neighbours either side more than
@@ -1131,7 +1111,15 @@ func zeroSlots(dst []zeroSlot, pw []stagePower, pts []float64, segs []int) []zer
 		lo := 0
 		for _, hi := range segs {
 			seg := pts[lo:hi]
-			l := sort.SearchFloat64s(seg, wl) - 1 // the last point below wl
+			// l: the last point below wl, by bisection.
+			l, top := -1, len(seg)
+			for top-l > 1 {
+				if mid := int(uint(l+top) >> 1); seg[mid] < wl {
+					l = mid
+				} else {
+					top = mid
+				}
+			}
 			r := l + 1
 			for r < len(seg) && seg[r] <= wr {
 				r++
@@ -1253,20 +1241,24 @@ func peakSegments(h Transfer, pts []float64, segs []int) ([]float64, []int) {
 // relative of the local maximum's.
 const peakRise = 1e-13
 
-// refineMax returns the largest value of the cascade |H|² = Π pw[i] (and
-// where it is) found on (a, b), which holds a local maximum, starting from
-// x inside; xb is where the largest value known so far, gb, is. Newton's
-// method on the log slope s = d ln|H|²/d ln ω (stagePower.slope) finds the
-// zero of s where it falls through 0: each evaluation narrows (a, b) by
-// the sign of s, so that it still holds a maximum, and a step that would
-// leave it, or one from a point of convex log-magnitude, bisects it
-// instead. A smooth maximum takes three or four evaluations.
-func refineMax(pw []stagePower, a, b, x, xb, gb float64) (xBest, gBest float64) {
-	xBest, gBest = xb, gb
+// refineMax refines a local maximum of the cascade |H|² = Π pw[i] in
+// (a, b), which holds one, starting from x inside. It returns where the
+// maximum is (the point it converged to) and the largest value of |H|²
+// evaluated there and on the way, or gb, a value known elsewhere, if that
+// is larger. Newton's method on the log slope s = d ln|H|²/d ln ω
+// (stagePower.slope) finds the zero of s where it falls through 0: each
+// evaluation narrows (a, b) by the sign of s, so that it still holds a
+// maximum, and a step that would leave it, or one from a point of convex
+// log-magnitude, bisects it instead. A smooth maximum takes three or four
+// evaluations.
+func refineMax(pw []stagePower, a, b, x, gb float64) (xMax, gBest float64) {
+	gBest = gb
+	xMax = x
 	for range 100 {
 		if !(a < x && x < b) {
-			return xBest, gBest // (a, b) as narrow as float64 holds
+			return xMax, gBest // (a, b) as narrow as float64 holds
 		}
+		xMax = x
 		iw := 1 / x
 		g, s, c := 1.0, 0.0, 0.0
 		for i := range pw {
@@ -1275,19 +1267,17 @@ func refineMax(pw []stagePower, a, b, x, xb, gb float64) (xBest, gBest float64) 
 			s += si
 			c += ci
 		}
-		if g > gBest {
-			xBest, gBest = x, g
-		}
+		gBest = max(gBest, g)
 		switch {
 		case s > 0:
 			a = x
 		case s < 0:
 			b = x
 		default:
-			return xBest, gBest
+			return xMax, gBest
 		}
 		if c < 0 && s*s <= -2*peakRise*c {
-			return xBest, gBest
+			return xMax, gBest
 		}
 		next := x * (1 - s/c)
 		if !(c < 0) || !(a < next && next < b) {
@@ -1295,5 +1285,5 @@ func refineMax(pw []stagePower, a, b, x, xb, gb float64) (xBest, gBest float64) 
 		}
 		x = next
 	}
-	return xBest, gBest
+	return xMax, gBest
 }
