@@ -126,6 +126,9 @@ func ulp(x float64) float64 {
 // complex evaluation of the whole cascade on the original, denser grid,
 // golden sections to 1e-13) for designs of every family and band: equal to
 // 1e-11 relative, so the coarser grid misses no maximum the original finds.
+// The first stage's peak, in closed form, is TestStagePowerPeak's (the
+// reference's grid, from a hundredth of the lowest pole, can miss a notch's
+// stationary point far below, 3e-11 above its DC gain in one case found).
 func TestCascadePeaksReference(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
 		h, _, _ := genDesign(t)
@@ -138,7 +141,7 @@ func TestCascadePeaksReference(t *testing.T) {
 			unit[i].Gain = 1
 		}
 		got := cascadePeaks(unit, h, make([]float64, len(unit)))
-		for k := range unit {
+		for k := 1; k < len(unit); k++ { // the first: closed form, TestStagePowerPeak
 			want := peakMag(h, func(w float64) float64 { return cmplx.Abs(cascade(unit, k+1, w/(2*math.Pi))) })
 			if math.Abs(got[k]-want) > 1e-11*want {
 				t.Fatalf("%d stages: cascade of %d peaks at %.15g, reference %.15g (%.3g relative)", len(unit), k+1, got[k], want, got[k]/want-1)
@@ -196,7 +199,7 @@ func TestCascadePeaksOutside(t *testing.T) {
 			unit[i].Gain = 1
 		}
 		got := cascadePeaks(unit, h, make([]float64, len(unit)))
-		for k := range unit {
+		for k := 1; k < len(unit); k++ { // the first: closed form, TestStagePowerPeak
 			want := peakMag(h, func(w float64) float64 { return cmplx.Abs(cascade(unit, k+1, w/(2*math.Pi))) })
 			if math.Abs(got[k]-want) > 1e-11*want {
 				t.Fatalf("%v: cascade of %d peaks at %.15g, reference %.15g (%.3g relative)", unit, k+1, got[k], want, got[k]/want-1)
