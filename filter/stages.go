@@ -742,53 +742,11 @@ func newStagePower(s Stage) stagePower {
 	return p
 }
 
-// at returns the stage's |H(jω)|² at ω rad/s (ω ≥ 0), iw = 1/ω. The
-// choices between the forms are selections, not branches (the side of ω0
-// changes from stage to stage at one frequency, which a branch would
-// mispredict).
-func (p *stagePower) at(w, iw float64) float64 {
-	rl, rh := w*p.iw0, p.w0*iw
-	low := rl <= 1
-	r := rh
-	if low {
-		r = rl
-	}
-	v := r * r
-	if p.order == 1 {
-		lowForm := low == (p.kind == LowpassStage)
-		n := v
-		if lowForm {
-			n = 1
-		}
-		return n / (1 + v)
-	}
-	d := 1 - v
-	d = d*d + p.beta*v
-	var n float64
-	switch p.kind {
-	case LowpassStage, HighpassStage:
-		n = v * v
-		if low == (p.kind == LowpassStage) {
-			n = 1
-		}
-	case BandpassStage:
-		n = p.beta * v
-	default: // NotchStage
-		a, b := 1.0, p.gamma
-		if !low {
-			a, b = p.gamma, 1
-		}
-		n = a - b*v
-		n *= n
-	}
-	return n / d
-}
-
 // slope returns the stage's |H(jω)|² at ω rad/s (iw = 1/ω) with its first
 // and second derivatives in logarithmic frequency: s = d ln|H|²/d ln ω and
-// c = ds/d ln ω. With v the variable of at (v = (ω/ω0)² below ω0, e = +1,
-// or (ω0/ω)² above, e = −1), N and D the numerator and denominator of the
-// form, and σ = v·d(ln N − ln D)/dv:
+// c = ds/d ln ω. With v the variable of the forms (v = (ω/ω0)² below ω0,
+// e = +1, or (ω0/ω)² above, e = −1), N and D the numerator and denominator
+// of the form, and σ = v·d(ln N − ln D)/dv:
 //
 //	s = 2e·σ,  c = 4v·dσ/dv  (dv/d ln ω = 2e·v)
 //	−v·D'/D has the derivative −(D' + v·D'')/D + v(D'/D)², D'' = 2 (second
@@ -796,8 +754,9 @@ func (p *stagePower) at(w, iw float64) float64 {
 //	N = 1, v², βv, v: σ_N = 0, 2, 1, 1, constant
 //	notch N = (a − bv)²: σ_N = −2bv/(a − bv), dσ_N/dv = −2ab/(a − bv)²
 //
-// (this file's own algebra; TestStagePowerSlope checks it against the
-// differences of at). At ω = 0 and +Inf the forms give their limits.
+// (this file's own algebra; TestStagePowerSlope checks |H|² against the
+// stage's complex transfer function and s and c against differences). At
+// ω = 0 and +Inf the forms give their limits.
 func (p *stagePower) slope(w, iw float64) (g, s, c float64) {
 	rl, rh := w*p.iw0, p.w0*iw
 	low := rl <= 1
@@ -873,7 +832,8 @@ func (p *stagePower) peak() float64 {
 	best := max(1, g*g)
 	if v := (2 - b - 2*g) / (2 + g*(b-2)); v > 0 && !math.IsInf(v, 0) {
 		w := p.w0 * math.Sqrt(v)
-		best = max(best, p.at(w, 1/w))
+		g, _, _ := p.slope(w, 1/w)
+		best = max(best, g)
 	}
 	return best
 }
