@@ -9,9 +9,15 @@
 //
 // The Go figures are the median over -runs samples, each the fastest of
 // -best runs of testing.Benchmark (ns per call); the SciPy figures are the
-// median over as many samples of timeit's best of three (scipy_side.py, embedded and run with Debian's
-// /usr/bin/python3, which has SciPy 1.10.1). Where Python or SciPy is
-// missing the program says so and prints the Go side alone. It is a tool,
+// median over as many samples of timeit's best of three (scipy_side.py,
+// embedded and run with Debian's /usr/bin/python3, which has SciPy 1.10.1).
+// The two sides take turns: each round times every Go case once and then
+// every SciPy case once, so that a ratio compares samples taken within a
+// minute or two of each other; the ratio printed is the median of the
+// rounds' ratios, with their range beside it (this machine's speed drifts
+// by up to 1.5× over minutes, which moves both sides of a round alike).
+// Where Python or SciPy is missing the program says so and prints the Go
+// side alone. It is a tool,
 // not a test: the exit status is 0 whether the targets pass or not (2 only
 // for a usage error or a failure of the library itself).
 package main
@@ -30,7 +36,6 @@ import (
 	"runtime"
 	"slices"
 	"strings"
-	"sync"
 	"testing"
 	"text/tabwriter"
 	"time"
@@ -72,6 +77,29 @@ type scipyResult struct {
 		Hz     []float64
 		GainDB []float64 `json:"gain_db"`
 	}
+	// rounds holds every round's ns per case (paired with the Go side's
+	// samples of the same round); NS is their median.
+	rounds []map[string]float64
+}
+
+// mergeRounds returns the first round's result with NS the median over
+// the rounds and every round's figures kept for the paired ratios.
+func mergeRounds(rs []*scipyResult) *scipyResult {
+	out := *rs[0]
+	out.NS = map[string]float64{}
+	for name := range rs[0].NS {
+		var x []float64
+		for _, r := range rs {
+			if v, ok := r.NS[name]; ok {
+				x = append(x, v)
+			}
+		}
+		out.NS[name] = median(x)
+	}
+	for _, r := range rs {
+		out.rounds = append(out.rounds, r.NS)
+	}
+	return &out
 }
 
 func main() {
@@ -96,32 +124,36 @@ func main() {
 
 	var sp *scipyResult
 	var spErr error
-	var spWG sync.WaitGroup
-	goFirst := make(chan struct{})
 	if !*noPython {
 		spErr = checkSciPy(*python)
 		if spErr != nil {
 			fmt.Printf("SciPy side will NOT RUN: %v\n", spErr)
 		}
 	}
-	if !*noPython && spErr == nil {
-		// SciPy runs after the Go side, in this same process's run, so the
-		// two never compete for the cores.
-		spWG.Add(1)
-		go func() {
-			defer spWG.Done()
-			<-goFirst
-			sp, spErr = runSciPy(*python, *runs)
-		}()
+	// The SciPy side's round follows the Go side's, never beside it, so the
+	// two do not compete for the cores.
+	var spRounds []*scipyResult
+	afterRound := func(r int) {
+		if *noPython || spErr != nil {
+			return
+		}
+		fmt.Fprintf(os.Stderr, "benchcmp: SciPy round %d of %d\n", r+1, *runs)
+		res, err := runSciPy(*python, 1)
+		if err != nil {
+			spErr = err
+			return
+		}
+		spRounds = append(spRounds, res)
 	}
 
-	g, err := measureGo(*runs)
+	g, err := measureGo(*runs, afterRound)
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "benchcmp: library failure:", err)
 		os.Exit(2)
 	}
-	close(goFirst)
-	spWG.Wait()
+	if spErr == nil && len(spRounds) > 0 {
+		sp = mergeRounds(spRounds)
+	}
 	fmt.Printf("load average at end:   %s\n\n", loadAvg())
 	if *noPython {
 		fmt.Println("SciPy side skipped (-no-scipy).")
@@ -156,10 +188,11 @@ func main() {
 
 // goFigures are the Go side's medians.
 type goFigures struct {
-	orders []int              // MinOrder of the two masks
-	swept  filter.Transfer    // the filter of the sweep cases
-	ns     map[string]float64 // ns per call
-	allocs map[string]float64 // allocations per call
+	orders []int                // MinOrder of the two masks
+	swept  filter.Transfer      // the filter of the sweep cases
+	ns     map[string]float64   // ns per call
+	allocs map[string]float64   // allocations per call
+	rounds map[string][]float64 // ns per call of every round, in order
 	// Monte Carlo: ns per (trial × frequency × stage) of the analysis and
 	// of the floor, per number of frequencies; total ms of the analysis.
 	mcCell, floorCell, prodCell, mcMS map[int]float64
@@ -231,9 +264,10 @@ func (j *job) median() (ns, allocs float64) { return median(j.ns), median(j.allo
 // measureGo registers every Go measurement as a job, then takes the
 // samples in rounds, one sample of every job per round, so that a burst of
 // load from elsewhere on the machine spoils one sample of many cases (which
-// the median discards) rather than all samples of one case.
-func measureGo(runs int) (*goFigures, error) {
-	g := &goFigures{ns: map[string]float64{}, allocs: map[string]float64{},
+// the median discards) rather than all samples of one case. afterRound is
+// called after each round (the SciPy side's turn).
+func measureGo(runs int, afterRound func(r int)) (*goFigures, error) {
+	g := &goFigures{ns: map[string]float64{}, allocs: map[string]float64{}, rounds: map[string][]float64{},
 		mcCell: map[int]float64{}, floorCell: map[int]float64{}, prodCell: map[int]float64{}, mcMS: map[int]float64{}}
 	var failure error
 	fail := func(b *testing.B, err error) {
@@ -450,10 +484,12 @@ func measureGo(runs int) (*goFigures, error) {
 			}
 			j.ns, j.allocs = append(j.ns, x), append(j.allocs, y)
 		}
+		afterRound(r)
 	}
 
 	for name, j := range named {
 		g.ns[name], g.allocs[name] = j.median()
+		g.rounds[name] = j.ns
 	}
 	for _, sj := range sizedJobs {
 		ns, _ := sj.j.median()
@@ -551,6 +587,21 @@ func runSciPy(python string, runs int) (*scipyResult, error) {
 	return &r, nil
 }
 
+// pairedRatio returns the median, least and greatest over the rounds of
+// the SciPy case's time over the Go case's (goNS, one sample a round).
+func pairedRatio(sp *scipyResult, scipyName string, goNS []float64) (mid, lo, hi float64) {
+	var rs []float64
+	for i, r := range sp.rounds {
+		if v, ok := r[scipyName]; ok && i < len(goNS) {
+			rs = append(rs, v/goNS[i])
+		}
+	}
+	if len(rs) == 0 {
+		return math.NaN(), math.NaN(), math.NaN()
+	}
+	return median(rs), slices.Min(rs), slices.Max(rs)
+}
+
 func loadAvg() string {
 	b, err := os.ReadFile("/proc/loadavg")
 	if err != nil {
@@ -573,25 +624,27 @@ func verdict(ok bool) string {
 func printTable(g *goFigures, sp *scipyResult) {
 	tw := tabwriter.NewWriter(os.Stdout, 2, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(os.Stdout, "Side by side (ratio = scipy time / rolloff time: how many times faster rolloff is)")
-	fmt.Fprintln(tw, "case\trolloff ns/op\tallocs/op\tscipy case\tscipy ns/op\tratio\ttarget\tresult\t")
+	fmt.Fprintln(tw, "case\trolloff ns/op\tallocs/op\tscipy case\tscipy ns/op\tratio\trounds' range\ttarget\tresult\t")
 	row := func(name, scipyName string, target float64) {
 		ns := g.ns[name]
-		sns, ratio, res, tgt := "-", "-", "-", "-"
+		sns, ratio, span, res, tgt := "-", "-", "-", "-", "-"
 		if target > 0 {
 			tgt = fmt.Sprintf(">= %gx", target)
 		}
 		if sp != nil {
 			if v, ok := sp.NS[scipyName]; ok {
 				sns = fmt.Sprintf("%.0f", v)
-				ratio = fmt.Sprintf("%.1fx", v/ns)
+				mid, lo, hi := pairedRatio(sp, scipyName, g.rounds[name])
+				ratio = fmt.Sprintf("%.1fx", mid)
+				span = fmt.Sprintf("%.1f-%.1fx", lo, hi)
 				if target > 0 {
-					res = verdict(v/ns >= target)
+					res = verdict(mid >= target)
 				}
 			}
 		} else if target > 0 {
 			res = "no scipy"
 		}
-		fmt.Fprintf(tw, "%s\t%.0f\t%.0f\t%s\t%s\t%s\t%s\t%s\t\n", name, ns, g.allocs[name], scipyName, sns, ratio, tgt, res)
+		fmt.Fprintf(tw, "%s\t%.0f\t%.0f\t%s\t%s\t%s\t%s\t%s\t%s\t\n", name, ns, g.allocs[name], scipyName, sns, ratio, span, tgt, res)
 	}
 	row("design/elliptic-lowpass", "design/elliptic-lowpass", 200)
 	row("design/chebyshev-bandpass", "design/chebyshev-bandpass", 200)
