@@ -17,9 +17,9 @@
 // rounds' ratios, with their range beside it (this machine's speed drifts
 // by up to 1.5× over minutes, which moves both sides of a round alike).
 // Where Python or SciPy is missing the program says so and prints the Go
-// side alone. It is a tool,
-// not a test: the exit status is 0 whether the targets pass or not (2 only
-// for a usage error or a failure of the library itself).
+// side alone. It is a tool, not a test: the exit status is 0 whether the
+// targets pass or not (2 only for a usage error or a failure of the
+// library itself).
 package main
 
 import (
@@ -118,7 +118,7 @@ func main() {
 		fmt.Fprintln(os.Stderr, "benchcmp:", err)
 		os.Exit(2)
 	}
-	fmt.Printf("benchcmp: %s %s/%s, %d CPUs, GOMAXPROCS %d; median of %d samples, each the best of %d Go runs of %v (SciPy: best of 3 timeit repeats)\n",
+	fmt.Printf("benchcmp: %s %s/%s, %d CPUs, GOMAXPROCS %d; median of %d rounds (Go, then SciPy), each Go sample the best of %d runs of %v (SciPy: best of 3 timeit repeats)\n",
 		runtime.Version(), runtime.GOOS, runtime.GOARCH, runtime.NumCPU(), runtime.GOMAXPROCS(0), *runs, best, *benchtime)
 	fmt.Printf("load average at start: %s\n", loadAvg())
 
