@@ -101,3 +101,43 @@ func ExampleCircuit_Sensitivities() {
 	// C1: f0 -0.500  Q +0.500  gain +0.000
 	// C2: f0 -0.500  Q -0.500  gain +0.000
 }
+
+// The output noise of an invented hydrophone preamplifier's anti-alias
+// section (a 20 kHz Butterworth Sallen-Key stage, 10 nF reference
+// capacitor), with an op-amp of 4 nV/√Hz and 0.5 pA/√Hz: the density at
+// 1 kHz, the largest source there, and the RMS noise over the audio band.
+func ExampleChain_NoiseRMS() {
+	st := filter.Stage{Kind: filter.LowpassStage, Order: 2, F0Hz: 20e3, Q: 1 / math.Sqrt2, Gain: 1}
+	ch, err := topology.Realize([]filter.Stage{st}, topology.Options{Kind: topology.SallenKey, CapF: 10e-9})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	n := topology.Noise{AmpVoltage: 4e-9, AmpCurrent: 0.5e-12}
+	d, err := ch.NoiseAt(n, 1e3)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	src, err := ch.NoiseSources(n, 1e3)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	top := src[0]
+	for _, s := range src {
+		if s.Density > top.Density {
+			top = s
+		}
+	}
+	rms, err := ch.NoiseRMS(n, 20, 20e3)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("at 1 kHz: %.2f nV/√Hz, largest %s %v %.2f nV/√Hz\n", d*1e9, top.Ref, top.Kind, top.Density*1e9)
+	fmt.Printf("20 Hz to 20 kHz: %.3f µV RMS\n", rms*1e6)
+	// Output:
+	// at 1 kHz: 5.92 nV/√Hz, largest U1 amp-voltage 4.02 nV/√Hz
+	// 20 Hz to 20 kHz: 0.982 µV RMS
+}

@@ -15,8 +15,8 @@ import (
 
 // FuzzChainJSON decodes arbitrary bytes as a Chain (the form a tool stores
 // realized circuits in) and uses what decodes: never a panic; AtHz gives a
-// number or NaN (a circuit that fits no template), the analyses give a
-// value or an error, WriteSPICE writes or errs; a chain that decodes and
+// number or NaN (a circuit that fits no template), the analyses (noise
+// included) give a value or an error, WriteSPICE writes or errs; a chain that decodes and
 // encodes again reads back equal.
 func FuzzChainJSON(f *testing.F) {
 	for _, st := range [][]filter.Stage{
@@ -56,6 +56,14 @@ func FuzzChainJSON(f *testing.F) {
 		var sb strings.Builder
 		_ = ch.WriteSPICE(&sb)
 		_ = ch.WriteSPICEWith(io.Discard, topology.OpAmp{GBWHz: 1e6, DCGain: 1e5, ROutOhm: 50})
+		noise := topology.Noise{AmpVoltage: 4e-9, AmpCurrent: 1e-12, OpAmp: topology.OpAmp{GBWHz: 1e6}}
+		if d, err := ch.NoiseAt(noise, 1e3); err == nil && !(d >= 0 && d <= math.MaxFloat64) {
+			t.Fatalf("NoiseAt %g without an error", d)
+		}
+		_, _ = ch.NoiseSources(noise, 1e3)
+		if v, err := ch.NoiseRMS(noise, 1e3, 2e3); err == nil && !(v >= 0 && v <= math.MaxFloat64) {
+			t.Fatalf("NoiseRMS %g without an error", v)
+		}
 		for _, c := range ch.Circuits {
 			_ = c.OpAmps()
 			_, _ = c.Achieved()

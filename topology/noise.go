@@ -45,6 +45,11 @@ type Noise struct {
 	// VoltageCornerHz and CurrentCornerHz are the 1/f corners of the two,
 	// where the 1/f part equals the white part; 0 for white noise.
 	VoltageCornerHz, CurrentCornerHz float64
+	// OpAmp is the op-amp model of the transfers from the sources to the
+	// output (AtHzWith's); the zero value is the ideal op-amp of AtHz. Its
+	// output resistance, a model of the open-loop output impedance and
+	// not a resistor, is noiseless.
+	OpAmp OpAmp
 }
 
 // NoiseKind is the kind of a NoiseSource.
@@ -91,8 +96,13 @@ type NoiseSource struct {
 	Density float64
 }
 
-// noiseLevels are a Noise's densities at one frequency, squared.
+// errNoiseRange is the error of a noise figure float64 cannot hold.
+var errNoiseRange = fmt.Errorf("topology: noise density not representable (parts far out of scale): %w", ErrParts)
+
+// noiseLevels are a Noise's densities at one frequency, squared, and its
+// op-amp model.
 type noiseLevels struct {
+	amp    mna.Amp
 	fourKT float64 // 4kT in joules: over R it is the current density A²/Hz
 	v2, i2 float64 // op-amp voltage (V²/Hz) and current (A²/Hz) densities
 }
@@ -115,11 +125,16 @@ func (n Noise) levels(f float64) (noiseLevels, error) {
 	if !(f > 0) || math.IsInf(f, 0) {
 		return noiseLevels{}, fmt.Errorf("topology: noise frequency %g Hz not positive and finite: %w", f, ErrOptions)
 	}
+	amp, err := n.OpAmp.amp()
+	if err != nil {
+		return noiseLevels{}, err
+	}
 	t := n.TempK
 	if t == 0 {
 		t = DefaultNoiseTempK
 	}
 	return noiseLevels{
+		amp:    amp,
 		fourKT: 4 * Boltzmann * t,
 		v2:     n.AmpVoltage * n.AmpVoltage * (1 + n.VoltageCornerHz/f),
 		i2:     n.AmpCurrent * n.AmpCurrent * (1 + n.CurrentCornerHz/f),
@@ -130,8 +145,9 @@ func (n Noise) levels(f float64) (noiseLevels, error) {
 // the circuit d with part values v, from the adjoint transfers y (mna's
 // Workspace.Adjoint), in template order: the resistors, then per op-amp its
 // voltage noise and its two current noises (sources of zero density
-// included).
-func noiseTerms(d *design, v []float64, y []complex128, lv noiseLevels, emit func(ref string, k NoiseKind, p float64)) {
+// included). It reports false if a density is not finite (parts so far
+// out of scale that float64 cannot hold a square).
+func noiseTerms(d *design, v []float64, y []complex128, lv noiseLevels, emit func(ref string, k NoiseKind, p float64)) bool {
 	node := func(i int) complex128 {
 		if i == 0 {
 			return 0
@@ -139,24 +155,31 @@ func noiseTerms(d *design, v []float64, y []complex128, lv noiseLevels, emit fun
 		return y[i-1]
 	}
 	sq := func(z complex128) float64 { return real(z)*real(z) + imag(z)*imag(z) }
+	sum := 0.0
+	put := func(ref string, k NoiseKind, p float64) {
+		sum += p
+		emit(ref, k, p)
+	}
 	amp := 0
 	for _, e := range d.net.Elements {
 		switch e.Kind {
 		case mna.Resistor:
-			emit(d.refs[e.Value], ResistorNoise, sq(node(e.B)-node(e.A))*lv.fourKT/v[e.Value])
+			put(d.refs[e.Value], ResistorNoise, sq(node(e.B)-node(e.A))*lv.fourKT/v[e.Value])
 		case mna.OpAmp:
 			ref := d.amps[amp]
-			emit(ref, AmpVoltageNoise, sq(y[d.net.Nodes+1+amp])*lv.v2)
-			emit(ref, AmpCurrentPlusNoise, sq(node(e.A))*lv.i2)
-			emit(ref, AmpCurrentMinusNoise, sq(node(e.B))*lv.i2)
+			put(ref, AmpVoltageNoise, sq(y[d.net.Nodes+1+amp])*lv.v2)
+			put(ref, AmpCurrentPlusNoise, sq(node(e.A))*lv.i2)
+			put(ref, AmpCurrentMinusNoise, sq(node(e.B))*lv.i2)
 			amp++
 		}
 	}
+	return sum <= math.MaxFloat64 // false for +Inf and NaN
 }
 
 // noise runs the adjoint analysis of c at f hertz, calls emit for every
-// source (noiseTerms) and returns the circuit's response there (AtHz: the
-// output per volt of the input source, from the same solve).
+// source (noiseTerms) and returns the circuit's response there (AtHzWith
+// of n.OpAmp: the output per volt of the input source, from the same
+// solve).
 func (c Circuit) noise(n Noise, f float64, emit func(ref string, k NoiseKind, p float64)) (complex128, error) {
 	lv, err := n.levels(f)
 	if err != nil {
@@ -174,10 +197,12 @@ func (c Circuit) noise(n Noise, f float64, emit func(ref string, k NoiseKind, p 
 	var w mna.Workspace
 	var yb [mna.MaxDim]complex128
 	y := yb[:d.net.Dim()]
-	if err := w.Adjoint(&d.net, v, mna.Amp{}, complex(0, 2*math.Pi*f), y); err != nil {
+	if err := w.Adjoint(&d.net, v, lv.amp, complex(0, 2*math.Pi*f), y); err != nil {
 		return 0, errSingular
 	}
-	noiseTerms(d, v, y, lv, emit)
+	if !noiseTerms(d, v, y, lv, emit) {
+		return 0, errNoiseRange
+	}
 	return y[d.net.Nodes], nil
 }
 
@@ -185,11 +210,13 @@ func (c Circuit) noise(n Noise, f float64, emit func(ref string, k NoiseKind, p 
 // with its input driven by an ideal (noiseless, zero-impedance) source:
 // the root of the sum of the squares of every source of n times its
 // transfer to the output, found by one adjoint solve of the circuit's
-// nodal equations (ideal op-amps, as AtHz). It does not allocate.
+// nodal equations (with n.OpAmp's model; ideal op-amps, as AtHz, by
+// default). It does not allocate.
 //
 // Errors wrap ErrOptions for a negative, NaN or infinite field of n or a
-// frequency that is not positive and finite, and ErrParts (or the template
-// errors) for a circuit whose parts do not fit its kind.
+// frequency that is not positive and finite, ErrOpAmp for bad n.OpAmp
+// parameters, and ErrParts (or the template errors) for a circuit whose
+// parts do not fit its kind.
 func (c Circuit) NoiseAt(n Noise, f float64) (float64, error) {
 	p, _, err := c.noisePower(n, f)
 	return math.Sqrt(p), err
@@ -223,8 +250,8 @@ func (c Circuit) NoiseSources(n Noise, f float64) ([]NoiseSource, error) {
 
 // NoiseAt returns the chain's output noise density at f hertz, in V/√Hz:
 // each circuit's own output noise (Circuit.NoiseAt) carried to the chain's
-// output by the circuits after it (|AtHz| of each), the contributions
-// adding in power. Each circuit is driven by the one before it, whose
+// output by the circuits after it (|AtHzWith| of each with n.OpAmp), the
+// contributions adding in power. Each circuit is driven by the one before it, whose
 // op-amp output is an ideal source, the first by an ideal source (the
 // model of Chain.AtHz). It does not allocate. Errors are those of
 // Circuit.NoiseAt, naming the stage, and ErrStage for an empty chain.
@@ -240,6 +267,9 @@ func (c Chain) NoiseAt(n Noise, f float64) (float64, error) {
 		}
 		total = total*(real(h)*real(h)+imag(h)*imag(h)) + own
 	}
+	if !(total <= math.MaxFloat64) {
+		return 0, errNoiseRange
+	}
 	return math.Sqrt(total), nil
 }
 
@@ -252,20 +282,19 @@ func (c Chain) NoiseSources(n Noise, f float64) ([]NoiseSource, error) {
 		return nil, fmt.Errorf("topology: noise of an empty chain: %w", ErrStage)
 	}
 	var out []NoiseSource
+	first := make([]int, len(c.Circuits)) // where each circuit's sources start
 	for i, ci := range c.Circuits {
-		src, err := ci.NoiseSources(n, f)
+		first[i] = len(out)
+		h, err := ci.noise(n, f, func(ref string, k NoiseKind, p float64) {
+			out = append(out, NoiseSource{Stage: i, Ref: ref, Kind: k, Density: math.Sqrt(p)})
+		})
 		if err != nil {
 			return nil, fmt.Errorf("topology: noise of stage %d: %w", i+1, err)
 		}
-		after := 1.0 // |H| of the circuits after this one
-		for _, cj := range c.Circuits[i+1:] {
-			h := cj.AtHz(f)
-			after *= math.Hypot(real(h), imag(h))
-		}
-		for _, s := range src {
-			s.Stage = i
-			s.Density *= after
-			out = append(out, s)
+		// Carry every earlier circuit's sources through this one.
+		g := math.Hypot(real(h), imag(h))
+		for j := range out[:first[i]] {
+			out[j].Density *= g
 		}
 	}
 	return out, nil
@@ -374,6 +403,9 @@ func (c Chain) NoiseRMS(n Noise, loHz, hiHz float64) (float64, error) {
 			if p.err > ps[worst].err {
 				worst = i
 			}
+		}
+		if !(total <= math.MaxFloat64) {
+			return 0, errNoiseRange
 		}
 		p := ps[worst]
 		if errSum <= noiseTol*total || !(p.b-p.a > 1e-12*(uh-ul)) {

@@ -341,6 +341,9 @@ func TestNoiseErrors(t *testing.T) {
 			t.Errorf("band %v: error %v, want ErrOptions", b, err)
 		}
 	}
+	if _, err := c.NoiseAt(Noise{OpAmp: OpAmp{GBWHz: -1}}, 1e3); !errors.Is(err, ErrOpAmp) {
+		t.Errorf("negative GBW: error %v, want ErrOpAmp", err)
+	}
 	if _, err := (Chain{}).NoiseAt(Noise{}, 1e3); !errors.Is(err, ErrStage) {
 		t.Errorf("empty chain: error %v, want ErrStage", err)
 	}
@@ -400,29 +403,46 @@ func BenchmarkNoiseAt(b *testing.B) {
 	})
 }
 
-// noiseDeck writes ch's SPICE deck with the op-amp noise of n added as
+// noiseDeck writes ch's SPICE deck (WriteSPICE, or WriteSPICEWith with
+// n.OpAmp when that has a finite gain) with the op-amp noise of n added as
 // ngspice noise sources (it has no noise source element of its own): a
 // resistor of e²/4kT in series with every op-amp's non-inverting input
 // (its open-circuit noise voltage √(4kTR) is e), and at each input a
 // current-controlled current source copying the noise current of a
 // resistor of 4kT/i² held at 0 V by a voltage source (noise current
-// √(4kT/R) = i). The resistor noise of the deck's own resistors is
-// ngspice's.
+// √(4kT/R) = i). The deck's own resistors are ngspice's thermal sources;
+// the macro model's internal resistors are made noiseless (noisy=0), as
+// Noise's op-amp model is.
 func noiseDeck(t *testing.T, ch Chain, n Noise, tempK float64) string {
 	t.Helper()
+	macro := n.OpAmp != (OpAmp{})
 	var b strings.Builder
-	if err := ch.WriteSPICE(&b); err != nil {
+	var err error
+	if macro {
+		err = ch.WriteSPICEWith(&b, n.OpAmp)
+	} else {
+		err = ch.WriteSPICE(&b)
+	}
+	if err != nil {
 		t.Fatal(err)
 	}
 	fourKT := 4 * Boltzmann * tempK
+	inputs := "E" // the elements whose control inputs are the op-amp's
+	if macro {
+		inputs = "G"
+	}
 	var out []string
 	for _, line := range strings.Split(b.String(), "\n") {
 		fs := strings.Fields(line)
-		if len(fs) != 6 || !strings.HasPrefix(fs[0], "E") {
+		if macro && len(fs) == 4 && (strings.HasPrefix(fs[0], "RP") || strings.HasPrefix(fs[0], "RO")) {
+			out = append(out, line+" noisy=0")
+			continue
+		}
+		if len(fs) != 6 || !strings.HasPrefix(fs[0], inputs) {
 			out = append(out, line)
 			continue
 		}
-		// E<k>_s<n> out 0 plus minus gain
+		// E<k>_s<n> out 0 plus minus gain, or G<k>_s<n> 0 x plus minus gm
 		name, plus, minus := fs[0], fs[3], fs[4]
 		if n.AmpVoltage > 0 {
 			x := "nv_" + name
@@ -532,4 +552,40 @@ func TestNoiseSPICE(t *testing.T) {
 		}
 	}
 	checkNoiseDeck(t, "four-stage chain", noiseDemoChain(t), amps, 1e3)
+	// A slow op-amp (TestSPICENonIdeal's): its gain-bandwidth shapes the
+	// noise transfers, most of all the op-amp's own voltage noise.
+	slow := amps
+	slow.OpAmp = OpAmp{GBWHz: 200e3, DCGain: 1e5, ROutOhm: 100}
+	for _, k := range allKinds {
+		for _, sk := range support[k] {
+			st := filter.Stage{Kind: sk.kind, Order: sk.order, F0Hz: 5e3, Gain: 1}
+			if sk.order == 2 {
+				st.Q = 2
+			}
+			if sk.kind == filter.NotchStage {
+				st.ZeroHz = 6e3
+			}
+			if k == SallenKeyEqual {
+				st.Gain = 1.2
+			}
+			c, err := RealizeStage(st, Options{Kind: k})
+			if err != nil {
+				t.Fatalf("%v %v: %v", k, sk.kind, err)
+			}
+			ch := Chain{Circuits: []Circuit{c}}
+			checkNoiseDeck(t, fmt.Sprintf("%v %v, slow op-amp", k, sk.kind), ch, slow, st.F0Hz)
+			// The model must visibly matter, or the check proves nothing.
+			ideal, err := c.NoiseAt(amps, 20*st.F0Hz)
+			if err != nil {
+				t.Fatal(err)
+			}
+			withModel, err := c.NoiseAt(slow, 20*st.F0Hz)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if math.Abs(withModel/ideal-1) < 0.01 {
+				t.Errorf("%v %v: the op-amp model moves the noise at 20·f0 by only %.2g", k, sk.kind, withModel/ideal-1)
+			}
+		}
+	}
 }
