@@ -29,7 +29,7 @@
 // The request document is described by pipeline.Request: a "mask"
 // (filter.Spec's JSON) and optional policy fields (families, kind,
 // resistor_series, capacitor_series, tolerances, trials, seed, margin_db,
-// min_yield_pct). Flags -trials and -seed override the document's.
+// min_yield_pct, amp_noise_nv, amp_noise_pa). Flags -trials and -seed override the document's.
 //
 // Caution: verify the output by simulation and on the bench;
 // mains-powered or medical equipment needs qualified review under local

@@ -121,6 +121,18 @@ func report(w io.Writer, r pipeline.Result, vpeak float64, dir string, files []s
 	p("  slew rate for a %g V peak sine at %s (top of the passband): %.3g V/µs at least\n",
 		vpeak, hz(top), topology.SlewRateVPerUs(vpeak, top))
 
+	nz := d.Noise
+	p("\nOutput noise (snapped parts; resistors at %.0f °C; op-amps %g nV/√Hz and %g pA/√Hz, ideal otherwise):\n",
+		nz.TempK-273.15, nz.AmpNoiseNV, nz.AmpNoisePA)
+	p("  %.3g nV/√Hz at %s; %.3g µV RMS from %s to %s\n", nz.DensityNV, hz(nz.RefHz), nz.RMSUV, hz(nz.BandHz[0]), hz(nz.BandHz[1]))
+	p("  largest sources at %s:\n", hz(nz.RefHz))
+	tw = &textable.Table{Indent: "    ", Right: []bool{false, false, true, true}}
+	tw.Row("part", "noise", "nV/√Hz", "share %")
+	for _, s := range nz.Top {
+		tw.Row(s.Designator, s.Kind, fmt.Sprintf("%.3g", s.DensityNV), fmt.Sprintf("%.1f", s.SharePct))
+	}
+	tw.WriteTo(&b)
+
 	mc := d.MonteCarlo
 	p("\nMonte Carlo: %d boards, seed %d, %s tolerances (R %g %%, C %g %%), checked at %d frequencies against the mask:\n",
 		mc.Trials, mc.Seed, mc.Distribution, mc.ResistorTolPct, mc.CapacitorTolPct, mc.Frequencies)

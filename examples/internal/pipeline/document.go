@@ -60,6 +60,8 @@ type Document struct {
 	Stages []StageDoc `json:"stages"`
 	// MonteCarlo is the tolerance analysis of the snapped chain.
 	MonteCarlo MonteCarloDoc `json:"monte_carlo"`
+	// Noise is the output noise of the snapped chain.
+	Noise NoiseDoc `json:"noise"`
 	// BOM is the bill of materials of the snapped chain.
 	BOM []BOMLine `json:"bom"`
 	// Caution is the caution line (Caution).
@@ -179,4 +181,46 @@ type BOMLine struct {
 	// Count is the number of parts; Refs their designators.
 	Count int      `json:"count"`
 	Refs  []string `json:"refs"`
+}
+
+// NoiseDoc is the output noise of the snapped chain (topology's noise
+// analysis): every resistor's thermal noise at TempK and the op-amps'
+// input noise of the request (white), ideal op-amps otherwise, the input
+// driven by an ideal source.
+type NoiseDoc struct {
+	// TempK is the resistors' temperature, kelvin
+	// (topology.DefaultNoiseTempK, 25 °C).
+	TempK float64 `json:"temp_k"`
+	// AmpNoiseNV and AmpNoisePA are the op-amp noise used (the request's).
+	AmpNoiseNV float64 `json:"amp_noise_nv"`
+	AmpNoisePA float64 `json:"amp_noise_pa"`
+	// BandHz is the band the RMS figure integrates over: the plot range
+	// (PlotRange), a decade beyond the mask's outermost edges, which is
+	// what a converter behind the filter folds into its band.
+	BandHz [2]float64 `json:"band_hz"`
+	// RMSUV is the output noise over BandHz, µV RMS.
+	RMSUV float64 `json:"rms_uv"`
+	// RefHz is the passband frequency of the density figures
+	// (NoiseRefHz).
+	RefHz float64 `json:"ref_hz"`
+	// DensityNV is the output noise density at RefHz, nV/√Hz.
+	DensityNV float64 `json:"density_nv"`
+	// Top lists the largest sources at RefHz, largest first (at most
+	// NoiseTop).
+	Top []NoiseSourceDoc `json:"top"`
+}
+
+// NoiseSourceDoc is one noise source's share of the output noise at
+// NoiseDoc.RefHz.
+type NoiseSourceDoc struct {
+	// Designator is the resistor's designator ("U2.R3") or the op-amp's
+	// ("U2.U1": stage U2, its op-amp U1).
+	Designator string `json:"designator"`
+	// Kind is the source kind (topology.NoiseKind's String: "resistor",
+	// "amp-voltage", "amp-current+", "amp-current-").
+	Kind string `json:"kind"`
+	// DensityNV is its contribution to the output density, nV/√Hz.
+	DensityNV float64 `json:"density_nv"`
+	// SharePct is its share of the output noise power there, percent.
+	SharePct float64 `json:"share_pct"`
 }

@@ -276,6 +276,9 @@ func evaluate(req Request, p policy, fam string) (Result, error) {
 		}
 		d.Stages = append(d.Stages, sd)
 	}
+	if d.Noise, err = noiseOf(snap.Chain, req); err != nil {
+		return r, err
+	}
 	for _, l := range lines {
 		d.BOM = append(d.BOM, BOMLine{
 			Kind:         l.Kind.String(),
@@ -341,6 +344,10 @@ func (d Document) check() error {
 		bad("deviation_db", d.DeviationDB), bad("rounded_deviation_db", d.RoundedDeviationDB),
 		bad("monte_carlo.yield_pct", d.MonteCarlo.YieldPct),
 	}
+	errs = append(errs, bad("noise.rms_uv", d.Noise.RMSUV), bad("noise.density_nv", d.Noise.DensityNV))
+	for i, s := range d.Noise.Top {
+		errs = append(errs, bad(fmt.Sprintf("noise.top[%d].density_nv", i), s.DensityNV))
+	}
 	for i, s := range d.Stages {
 		pre := fmt.Sprintf("stages[%d].", i)
 		errs = append(errs, bad(pre+"f0_err_pct", s.F0ErrPct), bad(pre+"q_err_pct", s.QErrPct),
@@ -348,6 +355,56 @@ func (d Document) check() error {
 			bad(pre+"rule_of_thumb_gbw_hz", s.RuleOfThumbGBWHz))
 	}
 	return errors.Join(errs...)
+}
+
+// NoiseTop is the number of sources a NoiseDoc lists.
+const NoiseTop = 5
+
+// NoiseRefHz returns the passband frequency where a NoiseDoc gives the
+// density: a decade inside a lowpass or highpass passband edge (or the
+// lower passband of a bandstop), the geometric centre of a bandpass.
+func NoiseRefHz(m filter.Spec) float64 {
+	switch m.Band {
+	case filter.Highpass:
+		return 10 * m.PassHz[0]
+	case filter.Bandpass:
+		return math.Sqrt(m.PassHz[0] * m.PassHz[1])
+	default:
+		return m.PassHz[0] / 10
+	}
+}
+
+// noiseOf returns the noise figures of the snapped chain for the resolved
+// request.
+func noiseOf(ch topology.Chain, req Request) (NoiseDoc, error) {
+	n := topology.Noise{AmpVoltage: req.AmpNoiseNV * 1e-9, AmpCurrent: req.AmpNoisePA * 1e-12}
+	lo, hi := PlotRange(req.Mask)
+	ref := NoiseRefHz(req.Mask)
+	nd := NoiseDoc{TempK: topology.DefaultNoiseTempK, AmpNoiseNV: req.AmpNoiseNV, AmpNoisePA: req.AmpNoisePA,
+		BandHz: [2]float64{lo, hi}, RefHz: ref}
+	rms, err := ch.NoiseRMS(n, lo, hi)
+	if err != nil {
+		return nd, err
+	}
+	dens, err := ch.NoiseAt(n, ref)
+	if err != nil {
+		return nd, err
+	}
+	src, err := ch.NoiseSources(n, ref)
+	if err != nil {
+		return nd, err
+	}
+	slices.SortStableFunc(src, func(a, b topology.NoiseSource) int { return cmp.Compare(b.Density, a.Density) })
+	for _, s := range src[:min(NoiseTop, len(src))] {
+		nd.Top = append(nd.Top, NoiseSourceDoc{
+			Designator: series.Designator(s.Stage, s.Ref),
+			Kind:       s.Kind.String(),
+			DensityNV:  s.Density * 1e9,
+			SharePct:   100 * (s.Density / dens) * (s.Density / dens),
+		})
+	}
+	nd.RMSUV, nd.DensityNV = rms*1e6, dens*1e9
+	return nd, nil
 }
 
 // PlotRange returns the frequency span, in hertz, that shows mask m whole:

@@ -58,13 +58,13 @@ func TestDocumentRoundTrip(t *testing.T) {
 	}
 	for _, k := range []string{"version", "request", "rule", "candidates", "family", "order", "design",
 		"design_margin_db", "snapped_margin_db", "deviation_db", "rounded_deviation_db", "inverting",
-		"stages", "monte_carlo", "bom", "caution"} {
+		"stages", "monte_carlo", "noise", "bom", "caution"} {
 		if _, ok := generic[k]; !ok {
 			t.Errorf("document lacks field %q", k)
 		}
 	}
-	if len(generic) != 16 {
-		t.Errorf("document has %d fields, want 16 (a new field needs its test and its doc)", len(generic))
+	if len(generic) != 17 {
+		t.Errorf("document has %d fields, want 17 (a new field needs its test and its doc)", len(generic))
 	}
 	// A document of another version is refused.
 	other := bytes.Replace(b, []byte(Version), []byte("rolloff.design/v0"), 1)
@@ -128,6 +128,40 @@ func TestDocumentIsConsistent(t *testing.T) {
 	}
 	if bomParts != nParts {
 		t.Errorf("BOM holds %d parts, stages %d", bomParts, nParts)
+	}
+	// The noise figures are the snapped chain's, with the request's
+	// op-amp noise, the largest sources first.
+	nz := d.Noise
+	if nz.AmpNoiseNV != DefaultAmpNoiseNV || nz.AmpNoisePA != DefaultAmpNoisePA || nz.TempK != topology.DefaultNoiseTempK {
+		t.Errorf("noise model %+v", nz)
+	}
+	tn := topology.Noise{AmpVoltage: 1e-9 * nz.AmpNoiseNV, AmpCurrent: 1e-12 * nz.AmpNoisePA}
+	dens, err := r.Snapped.NoiseAt(tn, nz.RefHz)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rms, err := r.Snapped.NoiseRMS(tn, nz.BandHz[0], nz.BandHz[1])
+	if err != nil {
+		t.Fatal(err)
+	}
+	if nz.DensityNV != dens*1e9 || nz.RMSUV != rms*1e6 || nz.RefHz != NoiseRefHz(d.Request.Mask) {
+		t.Errorf("noise %+v, chain %g nV/√Hz, %g µV", nz, dens*1e9, rms*1e6)
+	}
+	if len(nz.Top) != NoiseTop {
+		t.Fatalf("%d top sources, want %d", len(nz.Top), NoiseTop)
+	}
+	share := 0.0
+	for i, s := range nz.Top {
+		share += s.SharePct
+		if i > 0 && s.DensityNV > nz.Top[i-1].DensityNV {
+			t.Errorf("top sources out of order: %+v", nz.Top)
+		}
+		if math.Abs(s.SharePct-100*(s.DensityNV/nz.DensityNV)*(s.DensityNV/nz.DensityNV)) > 1e-9 {
+			t.Errorf("source %+v: share and density disagree", s)
+		}
+	}
+	if !(share > 0 && share <= 100+1e-9) {
+		t.Errorf("top sources' shares sum to %g %%", share)
 	}
 	if d.MonteCarlo.Trials != 300 || d.MonteCarlo.Seed != 3 {
 		t.Errorf("Monte Carlo %+v", d.MonteCarlo)
@@ -232,6 +266,8 @@ func TestBadRequests(t *testing.T) {
 		{`{` + mask + `, "margin_db": -0.1}`, "margin_db", nil},
 		{`{` + mask + `, "min_yield_pct": 101}`, "min_yield_pct", nil},
 		{`{` + mask + `, "seed": -3}`, "seed", nil},
+		{`{` + mask + `, "amp_noise_nv": -4}`, "amp_noise_nv", nil},
+		{`{` + mask + `, "amp_noise_pa": 1e9}`, "amp_noise_pa", nil},
 		{`{` + mask + `} {}`, "", nil},
 		{`{` + mask, "", nil},
 		{``, "", nil},

@@ -114,6 +114,13 @@ type Request struct {
 	// reach to rank above those that do not (see Rule); 0 means
 	// DefaultMinYieldPct. At most 100.
 	MinYieldPct float64 `json:"min_yield_pct,omitempty"`
+	// AmpNoiseNV is the op-amp input voltage noise density, nV/√Hz, of
+	// the noise figures (Document.Noise); 0 means DefaultAmpNoiseNV. At
+	// most MaxAmpNoise.
+	AmpNoiseNV float64 `json:"amp_noise_nv,omitempty"`
+	// AmpNoisePA is the op-amp input current noise density at each input,
+	// pA/√Hz; 0 means DefaultAmpNoisePA. At most MaxAmpNoise.
+	AmpNoisePA float64 `json:"amp_noise_pa,omitempty"`
 }
 
 // Defaults and limits of a Request.
@@ -124,6 +131,13 @@ const (
 	DefaultSeed            = 1
 	DefaultMinYieldPct     = 90
 	MaxTrials              = 200000
+	// DefaultAmpNoiseNV and DefaultAmpNoisePA are a general-purpose
+	// precision op-amp's input noise, 10 nV/√Hz and 1 pA/√Hz (common
+	// practice; low-noise audio parts reach 1 nV/√Hz, JFET-input parts
+	// have far less current noise).
+	DefaultAmpNoiseNV = 10
+	DefaultAmpNoisePA = 1
+	MaxAmpNoise       = 1e4
 )
 
 // FamilyNames lists the family names a Request accepts, in the order they
@@ -270,6 +284,20 @@ func (r Request) resolve() (policy, Request, error) {
 	}
 	if !(r.MinYieldPct > 0 && r.MinYieldPct <= 100) {
 		return p, r, fieldErr("min_yield_pct", fmt.Errorf("yield target %g %% (want 0 < target <= 100)", r.MinYieldPct))
+	}
+	if r.AmpNoiseNV == 0 {
+		r.AmpNoiseNV = DefaultAmpNoiseNV
+	}
+	if r.AmpNoisePA == 0 {
+		r.AmpNoisePA = DefaultAmpNoisePA
+	}
+	for _, a := range []struct {
+		field, unit string
+		v           float64
+	}{{"amp_noise_nv", "nV/√Hz", r.AmpNoiseNV}, {"amp_noise_pa", "pA/√Hz", r.AmpNoisePA}} {
+		if !(a.v > 0 && a.v <= MaxAmpNoise) {
+			return p, r, fieldErr(a.field, fmt.Errorf("op-amp noise %g %s (want 0 for the default, or up to %g)", a.v, a.unit, float64(MaxAmpNoise)))
+		}
 	}
 	p.designMask = r.Mask
 	p.designMask.RippleDB -= 2 * *r.MarginDB
