@@ -59,7 +59,9 @@ type mcPlan struct {
 	trials   int
 	seed     uint64
 	workers  int
-	keepDB   bool // keep every trial's gain (for percentiles)
+	done     <-chan struct{} // closed when the run is to stop early (nil: never)
+	stopped  atomic.Bool     // set when a worker stopped for done with blocks left
+	keepDB   bool            // keep every trial's gain (for percentiles)
 	moments  bool // mean and standard deviation of the gain in dB
 }
 
@@ -161,6 +163,12 @@ func (p *mcPlan) work(next *atomic.Int64, nblocks int, db []float64, blocks []bl
 	row := padded(nf)
 	needDB := p.keepDB || p.moments
 	for {
+		select {
+		case <-p.done:
+			p.stopped.Store(true) // the caller discards the counts
+			return passed, failed
+		default:
+		}
 		b := int(next.Add(1)) - 1
 		if b >= nblocks {
 			return passed, failed

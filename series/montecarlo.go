@@ -1,6 +1,7 @@
 package series
 
 import (
+	"context"
 	"fmt"
 	"math"
 
@@ -141,6 +142,19 @@ func (m Analysis) validate() error {
 // −3000 dB, or so far above any circuit's range that the analysis gives
 // NaN) or topology's.
 func (m Analysis) MonteCarlo(chain topology.Chain) (Spread, error) {
+	return m.MonteCarloContext(context.Background(), chain)
+}
+
+// MonteCarloContext is MonteCarlo stopped early when ctx is done: the
+// workers check ctx between blocks of 64 trials, and a cancelled run
+// returns no Spread and an error wrapping ctx.Err() (errors.Is matches
+// context.Canceled or context.DeadlineExceeded). A run that finishes
+// every trial is MonteCarlo's, bit for bit: ctx does not enter the
+// results.
+func (m Analysis) MonteCarloContext(ctx context.Context, chain topology.Chain) (Spread, error) {
+	if err := ctx.Err(); err != nil {
+		return Spread{}, fmt.Errorf("series: Monte Carlo not started: %w", err)
+	}
 	if err := m.validate(); err != nil {
 		return Spread{}, err
 	}
@@ -258,7 +272,11 @@ func (m Analysis) MonteCarlo(chain topology.Chain) (Spread, error) {
 			plan.checked = append(plan.checked, j)
 		}
 	}
+	plan.done = ctx.Done()
 	res := plan.run()
+	if plan.stopped.Load() {
+		return Spread{}, fmt.Errorf("series: Monte Carlo stopped: %w", ctx.Err())
+	}
 	out.Passed, out.Failed = res.passed, res.failed
 	out.Yield = float64(res.passed) / float64(m.Trials)
 	out.MeanDB, out.StdDB = res.mean, res.std

@@ -197,9 +197,11 @@ func newHandler(cfg config, logger *log.Logger) http.Handler {
 		case <-r.Context().Done():
 			return // the client gave up while waiting
 		}
-		res, err := pipeline.Run(req)
+		res, err := pipeline.RunContext(r.Context(), req)
 		<-slots
 		switch {
+		case r.Context().Err() != nil:
+			return // the client gave up: nothing to send, the run stopped early
 		case errors.Is(err, pipeline.ErrRequest):
 			writeError(w, http.StatusBadRequest, err)
 			return

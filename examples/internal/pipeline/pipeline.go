@@ -2,6 +2,7 @@ package pipeline
 
 import (
 	"cmp"
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -50,7 +51,12 @@ const passbandPoints = 48
 // by Rule, whose Document lists every candidate. req is resolved first
 // (Request.Resolve); a bad request is a *FieldError wrapping ErrRequest,
 // and a request no family can build an error wrapping ErrDesign.
-func Run(req Request) (Result, error) {
+func Run(req Request) (Result, error) { return RunContext(context.Background(), req) }
+
+// RunContext is Run stopped early when ctx is done (between families, and
+// within a family's Monte Carlo run, series.Analysis.MonteCarloContext):
+// the error then wraps ctx.Err(). A run that finishes is Run's.
+func RunContext(ctx context.Context, req Request) (Result, error) {
 	p, req, err := req.resolve()
 	if err != nil {
 		return Result{}, err
@@ -58,7 +64,13 @@ func Run(req Request) (Result, error) {
 	results := make([]Result, len(p.families))
 	cands := make([]Candidate, len(p.families))
 	for i, fam := range p.families {
-		results[i], err = evaluate(req, p, fam)
+		if err := ctx.Err(); err != nil {
+			return Result{}, fmt.Errorf("pipeline: stopped before %s: %w", fam, err)
+		}
+		results[i], err = evaluate(ctx, req, p, fam)
+		if ctx.Err() != nil && errors.Is(err, ctx.Err()) {
+			return Result{}, fmt.Errorf("pipeline: %s: %w", fam, err)
+		}
 		if err != nil {
 			cands[i] = Candidate{Family: fam, Order: results[i].Doc.Order, Error: err.Error()}
 			continue
@@ -88,7 +100,7 @@ func Evaluate(req Request, family string) (Result, error) {
 	if err != nil {
 		return Result{}, err
 	}
-	r, err := evaluate(req, p, p.families[0])
+	r, err := evaluate(context.Background(), req, p, p.families[0])
 	if err != nil {
 		return Result{}, err
 	}
@@ -148,7 +160,7 @@ func boolInt(b bool) int {
 
 // evaluate runs the whole pipeline for one family of a resolved request.
 // On error the returned Result's Doc.Order is set when the order was found.
-func evaluate(req Request, p policy, fam string) (Result, error) {
+func evaluate(ctx context.Context, req Request, p policy, fam string) (Result, error) {
 	var r Result
 	f, _ := familyOf(fam)
 	order, err := filter.MinOrder(f, p.designMask)
@@ -210,7 +222,7 @@ func evaluate(req Request, p policy, fam string) (Result, error) {
 		Spec:        &mcMask,
 		SlackDB:     *req.MarginDB,
 		Percentiles: EnvelopePercentiles,
-	}.MonteCarlo(snap.Chain)
+	}.MonteCarloContext(ctx, snap.Chain)
 	if err != nil {
 		return r, err
 	}
