@@ -62,7 +62,7 @@ type mcPlan struct {
 	done     <-chan struct{} // closed when the run is to stop early (nil: never)
 	stopped  atomic.Bool     // set when a worker stopped for done with blocks left
 	keepDB   bool            // keep every trial's gain (for percentiles)
-	moments  bool // mean and standard deviation of the gain in dB
+	moments  bool            // mean and standard deviation of the gain in dB
 }
 
 // blockSize is the number of consecutive trials a worker takes at a time.
