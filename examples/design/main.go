@@ -16,7 +16,8 @@
 // the JSON result document (design.json), the bill of materials
 // (design-bom.csv), the SPICE deck (design.cir) and plots: bode.png (and
 // bode.svg) with gain and phase of the design and of the snapped parts
-// against the mask, delay.png (group delay), step.png (step response) and
+// against the mask, delay.png (group delay), step.png (step response),
+// noise.png (the output noise density, in total and per stage) and
 // montecarlo.png (the Monte Carlo gain envelope against the mask, with a
 // passband detail).
 //

@@ -47,7 +47,7 @@ func TestDemoReportAndFiles(t *testing.T) {
 			t.Errorf("report lacks %q:\n%s", want, out)
 		}
 	}
-	for _, name := range []string{"design.json", "design-bom.csv", "design.cir", "bode.png", "bode.svg", "delay.png", "step.png", "montecarlo.png"} {
+	for _, name := range []string{"design.json", "design-bom.csv", "design.cir", "bode.png", "bode.svg", "delay.png", "step.png", "noise.png", "montecarlo.png"} {
 		fi, err := os.Stat(filepath.Join(dir, name))
 		if err != nil || fi.Size() == 0 {
 			t.Errorf("%s: missing or empty (%v)", name, err)
@@ -232,7 +232,7 @@ func TestPlotsDecodeBandpass(t *testing.T) {
 	if err := run([]string{"-in", in, "-out", dir}, nil, &stdout, &stderr); err != nil {
 		t.Fatal(err)
 	}
-	for _, name := range []string{"bode.png", "delay.png", "step.png", "montecarlo.png"} {
+	for _, name := range []string{"bode.png", "delay.png", "step.png", "noise.png", "montecarlo.png"} {
 		f, err := os.Open(filepath.Join(dir, name))
 		if err != nil {
 			t.Fatal(err)

@@ -22,6 +22,7 @@ import (
 	"github.com/rolloff/rolloff/filter"
 	"github.com/rolloff/rolloff/response"
 	"github.com/rolloff/rolloff/series"
+	"github.com/rolloff/rolloff/topology"
 )
 
 // sweepPoints is the number of log-spaced frequencies of the plots.
@@ -33,6 +34,14 @@ var (
 	maskFill     = color.NRGBA{R: 0xd0, G: 0x20, B: 0x20, A: 0x30} // translucent red
 	maskEdge     = color.NRGBA{R: 0xb0, G: 0x10, B: 0x10, A: 0xc0}
 	bandFill     = color.NRGBA{R: 0xe0, G: 0x6c, B: 0x00, A: 0x50}
+	// stageColors tell the stages apart in the noise plot (cycled).
+	stageColors = []color.Color{
+		color.NRGBA{R: 0xe0, G: 0x6c, B: 0x00, A: 0xff}, // orange
+		color.NRGBA{R: 0x2a, G: 0x9d, B: 0x3f, A: 0xff}, // green
+		color.NRGBA{R: 0x8e, G: 0x44, B: 0xad, A: 0xff}, // purple
+		color.NRGBA{R: 0x7f, G: 0x7f, B: 0x7f, A: 0xff}, // grey
+		color.NRGBA{R: 0xc0, G: 0x39, B: 0x2b, A: 0xff}, // red
+	}
 )
 
 // engTicks are log ticks labelled in engineering notation ("100", "1k",
@@ -393,7 +402,52 @@ func writePlots(dir string, r pipeline.Result) ([]string, error) {
 		return nil, err
 	}
 
-	// 4. Monte Carlo envelope against the mask, full span and passband.
+	// 4. Output noise density of the snapped chain: the total and each
+	// stage's own share carried to the output (Chain.NoiseSources summed
+	// in power per stage), over the plot range.
+	nz := r.Doc.Noise
+	nm := topology.Noise{AmpVoltage: nz.AmpNoiseNV * 1e-9, AmpCurrent: nz.AmpNoisePA * 1e-12}
+	nf := floats.LogSpan(make([]float64, 200), lo, hi)
+	total := make([]float64, len(nf))
+	perStage := make([][]float64, len(r.Snapped.Circuits))
+	for k := range perStage {
+		perStage[k] = make([]float64, len(nf))
+	}
+	for i, fz := range nf {
+		src, err := r.Snapped.NoiseSources(nm, fz)
+		if err != nil {
+			return nil, err
+		}
+		sum := 0.0
+		for _, s := range src {
+			p := s.Density * s.Density
+			perStage[s.Stage][i] += p
+			sum += p
+		}
+		total[i] = 1e9 * math.Sqrt(sum)
+	}
+	pn := newPlot(fmt.Sprintf("Output noise: %.3g µV RMS from %s to %s", nz.RMSUV, hz(nz.BandHz[0]), hz(nz.BandHz[1])),
+		fLabel, "Noise density (nV/√Hz)", true)
+	if err := addLine(pn, "total", nf, total, designColor, false); err != nil {
+		return nil, err
+	}
+	for k, ps := range perStage {
+		ys := make([]float64, len(ps))
+		for i, p := range ps {
+			ys[i] = 1e9 * math.Sqrt(p)
+		}
+		c := stageColors[k%len(stageColors)]
+		if err := addLine(pn, fmt.Sprintf("stage U%d's own", k+1), nf, ys, c, true); err != nil {
+			return nil, err
+		}
+	}
+	pn.X.Min, pn.X.Max, pn.Y.Min = lo, hi, 0
+	legendAt(pn, true, m.Band == filter.Highpass)
+	if err := save("noise.png", false, 20*vg.Centimeter, 12*vg.Centimeter, pn); err != nil {
+		return nil, err
+	}
+
+	// 5. Monte Carlo envelope against the mask, full span and passband.
 	sp := r.Spread
 	if len(sp.EnvelopeDB) != len(pipeline.EnvelopePercentiles) {
 		return nil, fmt.Errorf("Monte Carlo envelope missing")
