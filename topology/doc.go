@@ -30,6 +30,17 @@
 // function, and the decks with ngspice, so the analysis checks the
 // synthesis.
 //
+// # Noise
+//
+// NoiseAt, NoiseSources and Chain.NoiseRMS give the output noise of what
+// is built: every resistor's thermal noise and every op-amp's input
+// voltage and current noise (Noise: densities, 1/f corners, temperature,
+// an op-amp model), each carried to the output by its own transfer. One
+// solve of the transposed nodal equations (the adjoint network) gives all
+// those transfers at once, from the same template, so every kind has its
+// noise figures; the tests compare them with ngspice's noise analysis of
+// the same decks.
+//
 // # Standard values and tolerances
 //
 // The series layer snaps parts to standard values: Refit holds snapped
