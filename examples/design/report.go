@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"math"
 	"strings"
 
 	"github.com/rolloff/rolloff/examples/internal/pipeline"
@@ -125,6 +126,10 @@ func report(w io.Writer, r pipeline.Result, vpeak float64, dir string, files []s
 	p("\nOutput noise (snapped parts; resistors at %.0f °C; op-amps %g nV/√Hz and %g pA/√Hz, ideal otherwise):\n",
 		nz.TempK-273.15, nz.AmpNoiseNV, nz.AmpNoisePA)
 	p("  %.3g nV/√Hz at %s; %.3g µV RMS from %s to %s\n", nz.DensityNV, hz(nz.RefHz), nz.RMSUV, hz(nz.BandHz[0]), hz(nz.BandHz[1]))
+	if nz.RMSUV > 0 {
+		// A full-scale sine of vpeak at the output against that noise.
+		p("  a %g V peak sine at the output stands %.1f dB above it\n", vpeak, 20*math.Log10(vpeak/math.Sqrt2/(nz.RMSUV*1e-6)))
+	}
 	p("  largest sources at %s:\n", hz(nz.RefHz))
 	tw = &textable.Table{Indent: "    ", Right: []bool{false, false, true, true}}
 	tw.Row("part", "noise", "nV/√Hz", "share %")
