@@ -101,3 +101,33 @@ var (
 	_ response.System = Chain{}
 	_ response.System = Biquad{}
 )
+
+// plainStage is a stage of kind sk and order for circuit kind k at gain 1
+// with f0, the Q of a second-order stage, a notch zero at zeroHz, and the
+// equal-component Sallen-Key's gain skeGain (it cannot give 1 at low Q):
+// the fixed cases of the non-ideal op-amp checks.
+func plainStage(k Kind, sk filter.StageKind, order int, f0, q, zeroHz, skeGain float64) filter.Stage {
+	st := filter.Stage{Kind: sk, Order: order, F0Hz: f0, Gain: 1}
+	if order == 2 {
+		st.Q = q
+	}
+	if sk == filter.NotchStage {
+		st.ZeroHz = zeroHz
+	}
+	if k == SallenKeyEqual {
+		st.Gain = skeGain
+	}
+	return st
+}
+
+// drawCircuit draws a kind, a stage it realizes (drawStage) and its
+// circuit, skipping the draw when the kind's ranges refuse the stage.
+func drawCircuit(t *rapid.T) (filter.Stage, Circuit) {
+	k := rapid.SampledFrom(allKinds).Draw(t, "kind")
+	st := drawStage(t, k)
+	c, err := RealizeStage(st, Options{Kind: k})
+	if err != nil {
+		t.Skip(err)
+	}
+	return st, c
+}

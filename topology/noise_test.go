@@ -100,12 +100,7 @@ func drawNoise(t *rapid.T) Noise {
 // op-amp voltage noise as √(1 + fc/f).
 func TestNoiseSourcesAddUp(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
-		k := rapid.SampledFrom(allKinds).Draw(t, "kind")
-		st := drawStage(t, k)
-		c, err := RealizeStage(st, Options{Kind: k})
-		if err != nil {
-			t.Skip(err)
-		}
+		st, c := drawCircuit(t)
 		n := drawNoise(t)
 		f := st.F0Hz * math.Pow(10, rapid.Float64Range(-2, 2).Draw(t, "logF"))
 		total, err := c.NoiseAt(n, f)
@@ -175,12 +170,7 @@ func TestNoiseSourcesAddUp(t *testing.T) {
 // the op-amp voltage noise's alone (its transfers are ratios).
 func TestNoiseImpedanceScaling(t *testing.T) {
 	rapid.Check(t, func(t *rapid.T) {
-		k := rapid.SampledFrom(allKinds).Draw(t, "kind")
-		st := drawStage(t, k)
-		c, err := RealizeStage(st, Options{Kind: k})
-		if err != nil {
-			t.Skip(err)
-		}
+		st, c := drawCircuit(t)
 		a := math.Pow(10, rapid.Float64Range(-1, 1).Draw(t, "logScale"))
 		sc := c
 		sc.Parts = append([]Part(nil), c.Parts...)
@@ -558,16 +548,7 @@ func TestNoiseSPICE(t *testing.T) {
 	slow.OpAmp = OpAmp{GBWHz: 200e3, DCGain: 1e5, ROutOhm: 100}
 	for _, k := range allKinds {
 		for _, sk := range support[k] {
-			st := filter.Stage{Kind: sk.kind, Order: sk.order, F0Hz: 5e3, Gain: 1}
-			if sk.order == 2 {
-				st.Q = 2
-			}
-			if sk.kind == filter.NotchStage {
-				st.ZeroHz = 6e3
-			}
-			if k == SallenKeyEqual {
-				st.Gain = 1.2
-			}
+			st := plainStage(k, sk.kind, sk.order, 5e3, 2, 6e3, 1.2) // TestSPICENonIdeal's
 			c, err := RealizeStage(st, Options{Kind: k})
 			if err != nil {
 				t.Fatalf("%v %v: %v", k, sk.kind, err)

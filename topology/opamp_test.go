@@ -161,16 +161,7 @@ func TestPolesZerosWithMatchesAtHzWith(t *testing.T) {
 	op := OpAmp{GBWHz: 1e6, DCGain: 2e5, ROutOhm: 40}
 	for _, k := range allKinds {
 		for _, sk := range support[k] {
-			st := filter.Stage{Kind: sk.kind, Order: sk.order, F0Hz: 3e3, Gain: 1}
-			if sk.order == 2 {
-				st.Q = 1.5
-			}
-			if sk.kind == filter.NotchStage {
-				st.ZeroHz = 2e3
-			}
-			if k == SallenKeyEqual {
-				st.Gain = 1.5
-			}
+			st := plainStage(k, sk.kind, sk.order, 3e3, 1.5, 2e3, 1.5)
 			c, err := RealizeStage(st, Options{Kind: k})
 			if err != nil {
 				t.Fatal(err)

@@ -132,16 +132,7 @@ func TestSPICENonIdeal(t *testing.T) {
 	op := OpAmp{GBWHz: 200e3, DCGain: 1e5, ROutOhm: 100}
 	for _, k := range allKinds {
 		for _, sk := range support[k] {
-			st := filter.Stage{Kind: sk.kind, Order: sk.order, F0Hz: 5e3, Gain: 1}
-			if sk.order == 2 {
-				st.Q = 2
-			}
-			if sk.kind == filter.NotchStage {
-				st.ZeroHz = 6e3
-			}
-			if k == SallenKeyEqual {
-				st.Gain = 1.2
-			}
+			st := plainStage(k, sk.kind, sk.order, 5e3, 2, 6e3, 1.2)
 			c, err := RealizeStage(st, Options{Kind: k})
 			if err != nil {
 				t.Fatalf("%v %v: %v", k, sk.kind, err)
