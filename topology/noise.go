@@ -72,28 +72,47 @@ const (
 // String returns "resistor", "amp-voltage", "amp-current+",
 // "amp-current-", or "NoiseKind(n)".
 func (k NoiseKind) String() string {
-	switch k {
-	case ResistorNoise:
-		return "resistor"
-	case AmpVoltageNoise:
-		return "amp-voltage"
-	case AmpCurrentPlusNoise:
-		return "amp-current+"
-	case AmpCurrentMinusNoise:
-		return "amp-current-"
+	if b, err := k.MarshalText(); err == nil {
+		return string(b)
 	}
 	return fmt.Sprintf("NoiseKind(%d)", int(k))
 }
 
+// noiseKindNames are the String forms of the NoiseKinds, by value.
+var noiseKindNames = [...]string{ResistorNoise: "resistor", AmpVoltageNoise: "amp-voltage",
+	AmpCurrentPlusNoise: "amp-current+", AmpCurrentMinusNoise: "amp-current-"}
+
+// MarshalText implements encoding.TextMarshaler (the String form); an
+// unknown kind is an error wrapping ErrOptions.
+func (k NoiseKind) MarshalText() ([]byte, error) {
+	if k < ResistorNoise || int(k) >= len(noiseKindNames) {
+		return nil, fmt.Errorf("topology: noise kind %d unknown: %w", int(k), ErrOptions)
+	}
+	return []byte(noiseKindNames[k]), nil
+}
+
+// UnmarshalText implements encoding.TextUnmarshaler: one of the String
+// forms, or an error wrapping ErrOptions.
+func (k *NoiseKind) UnmarshalText(b []byte) error {
+	for v, name := range noiseKindNames {
+		if v > 0 && name == string(b) {
+			*k = NoiseKind(v)
+			return nil
+		}
+	}
+	return fmt.Errorf("topology: noise kind %q unknown: %w", b, ErrOptions)
+}
+
 // NoiseSource is one source's share of the output noise at one frequency.
+// It marshals to JSON as {"stage", "ref", "kind", "density"}.
 type NoiseSource struct {
-	Stage int       // index of the circuit in its chain (0 for Circuit.NoiseSources)
-	Ref   string    // the resistor ("R3") or op-amp ("U1") it belongs to
-	Kind  NoiseKind // what noise it is
+	Stage int       `json:"stage"` // index of the circuit in its chain (0 for Circuit.NoiseSources)
+	Ref   string    `json:"ref"`   // the resistor ("R3") or op-amp ("U1") it belongs to
+	Kind  NoiseKind `json:"kind"`  // what noise it is
 	// Density is its contribution to the output noise density, V/√Hz:
 	// the source's density times the magnitude of its transfer to the
 	// output. The output density is the root of the sum of the squares.
-	Density float64
+	Density float64 `json:"density"`
 }
 
 // errNoiseRange is the error of a noise figure float64 cannot hold.

@@ -1,6 +1,7 @@
 package topology
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -8,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/google/go-cmp/cmp"
 	"github.com/rolloff/rolloff/filter"
 	"github.com/rolloff/rolloff/internal/ngspice"
 	"pgregory.net/rapid"
@@ -568,5 +570,45 @@ func TestNoiseSPICE(t *testing.T) {
 				t.Errorf("%v %v: the op-amp model moves the noise at 20·f0 by only %.2g", k, sk.kind, withModel/ideal-1)
 			}
 		}
+	}
+}
+
+// TestNoiseSourceJSON checks that noise sources marshal to their
+// snake_case fields, the kind by name, and read back equal; an unknown
+// kind is an error either way.
+func TestNoiseSourceJSON(t *testing.T) {
+	ch := noiseDemoChain(t)
+	src, err := ch.NoiseSources(Noise{AmpVoltage: 4e-9, AmpCurrent: 1e-12}, 1e3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := json.Marshal(src)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var back []NoiseSource
+	if err := json.Unmarshal(b, &back); err != nil {
+		t.Fatal(err)
+	}
+	if diff := cmp.Diff(src, back); diff != "" {
+		t.Errorf("round trip (-before +after):\n%s", diff)
+	}
+	if !strings.Contains(string(b), `"kind":"amp-current+"`) || !strings.Contains(string(b), `"density":`) {
+		t.Errorf("JSON %s lacks the named kind or the density field", b)
+	}
+	for k := ResistorNoise; k <= AmpCurrentMinusNoise; k++ {
+		var got NoiseKind
+		if err := got.UnmarshalText([]byte(k.String())); err != nil || got != k {
+			t.Errorf("%v reads back as %v, %v", k, got, err)
+		}
+	}
+	if _, err := NoiseKind(0).MarshalText(); !errors.Is(err, ErrOptions) {
+		t.Errorf("kind 0 marshals: %v", err)
+	}
+	if err := json.Unmarshal([]byte(`[{"kind":"shot"}]`), &back); !errors.Is(err, ErrOptions) {
+		t.Errorf("unknown kind: %v", err)
+	}
+	if s := NoiseKind(9).String(); s != "NoiseKind(9)" {
+		t.Errorf("NoiseKind(9).String() = %q", s)
 	}
 }
