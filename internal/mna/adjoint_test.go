@@ -70,3 +70,60 @@ func TestAdjointRC(t *testing.T) {
 		t.Errorf("input node transfer %v, want 0", y[net.In-1])
 	}
 }
+
+// TestAdjointNyquist checks the adjoint transfers against Nyquist's theorem
+// for passive networks (Nyquist, 1928; from memory of circuit-noise texts):
+// the thermal noise of all the resistors of a passive RC network, seen at
+// a port, is that of the port's driving-point impedance, Σ 4kT·|z_R|²/R =
+// 4kT·Re Z. Here the port is the ladder's output with its input grounded
+// by the source, z_R the transimpedance from a resistor's noise current to
+// the output (y[b] − y[a]) and Z = y[Out], the output's own (a current
+// injected there). Random ladders whose rungs carry a series resistor and
+// capacitor as well, so that every resistor's transfer is complex.
+func TestAdjointNyquist(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		n := rapid.IntRange(1, 5).Draw(t, "n")
+		net := ladder(n)
+		nv := 2 * n
+		// A resistor to ground in series with a capacitor on some nodes:
+		// a new node per such rung.
+		for k := range n {
+			if rapid.Bool().Draw(t, "rung") {
+				net.Nodes++
+				x := net.Nodes
+				net.Elements = append(net.Elements,
+					Element{Kind: Resistor, A: k + 2, B: x, Value: nv},
+					Element{Kind: Capacitor, A: x, B: 0, Value: nv + 1})
+				nv += 2
+			}
+		}
+		values := make([]float64, nv)
+		for i := range values {
+			values[i] = math.Pow(10, rapid.Float64Range(-1, 1).Draw(t, "v"))
+		}
+		w0 := RadiusOf(&net, values)
+		s := complex(0, w0*math.Pow(10, rapid.Float64Range(-1.5, 1.5).Draw(t, "f")))
+		y := make([]complex128, net.Dim())
+		var w Workspace
+		if err := w.Adjoint(&net, values, Amp{}, s, y); err != nil {
+			t.Fatal(err)
+		}
+		at := func(node int) complex128 {
+			if node == 0 {
+				return 0
+			}
+			return y[node-1]
+		}
+		sum := 0.0
+		for _, e := range net.Elements {
+			if e.Kind == Resistor {
+				z := at(e.B) - at(e.A)
+				sum += (real(z)*real(z) + imag(z)*imag(z)) / values[e.Value]
+			}
+		}
+		re := real(y[net.Out-1])
+		if !(math.Abs(sum-re) <= 1e-12*math.Abs(re)+1e-15*cmplx.Abs(y[net.Out-1])) {
+			t.Fatalf("Σ|z|²/R = %g, Re Z = %g (Z = %v)", sum, re, y[net.Out-1])
+		}
+	})
+}
