@@ -47,19 +47,19 @@ func report(w io.Writer, r pipeline.Result, vpeak float64, dir string, files []s
 		q.ResistorSeries, q.ResistorTolPct, q.CapacitorSeries, q.CapacitorTolPct, q.Kind, *q.MarginDB, q.MinYieldPct)
 
 	p("Candidates, best first. Rule: %s.\n", d.Rule)
-	tw := &textable.Table{Indent: "  ", Right: []bool{false, true, true, true, true, true, true}}
-	tw.Row("family", "order", "op-amps", "parts", "deviation dB", "yield %", "max GBW", "")
+	tw := &textable.Table{Indent: "  ", Right: []bool{false, true, true, true, true, true, true, true}}
+	tw.Row("family", "order", "op-amps", "parts", "deviation dB", "yield %", "max GBW", "noise µV", "")
 	for _, i := range pipeline.Rank(d.Candidates, q.MinYieldPct) {
 		c := d.Candidates[i]
 		if c.Error != "" {
-			tw.Row(c.Family, "-", "-", "-", "-", "-", "-", "not buildable: "+c.Error)
+			tw.Row(c.Family, "-", "-", "-", "-", "-", "-", "-", "not buildable: "+c.Error)
 			continue
 		}
 		mark := ""
 		if c.Family == d.Family {
 			mark = "<- chosen"
 		}
-		tw.Row(c.Family, fmt.Sprint(c.Order), fmt.Sprint(c.OpAmps), fmt.Sprint(c.Parts), fmt.Sprintf("%.3f", c.DeviationDB), fmt.Sprintf("%.1f", c.YieldPct), hz(c.MaxGBWHz), mark)
+		tw.Row(c.Family, fmt.Sprint(c.Order), fmt.Sprint(c.OpAmps), fmt.Sprint(c.Parts), fmt.Sprintf("%.3f", c.DeviationDB), fmt.Sprintf("%.1f", c.YieldPct), hz(c.MaxGBWHz), fmt.Sprintf("%.3g", c.NoiseUV), mark)
 	}
 	tw.WriteTo(&b)
 

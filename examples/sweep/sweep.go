@@ -103,8 +103,8 @@ func printTable(w io.Writer, base pipeline.Request, rows []row) error {
 		pipeline.MaskText(base.Mask), len(rows), base.Trials, base.Seed)
 	fmt.Fprintln(w, "Best first: higher yield, then fewer op-amps, fewer parts, less deviation, lower GBW.")
 	fmt.Fprintln(w)
-	t := &textable.Table{Right: []bool{true, false, false, false, true, true, true, true, true, true}}
-	t.Row("#", "family", "circuit", "parts R/C", "order", "op-amps", "parts", "worst dev dB", "yield %", "max GBW")
+	t := &textable.Table{Right: []bool{true, false, false, false, true, true, true, true, true, true, true}}
+	t.Row("#", "family", "circuit", "parts R/C", "order", "op-amps", "parts", "worst dev dB", "yield %", "max GBW", "noise µV")
 	var failed []row
 	for i, r := range rows {
 		if r.err != nil {
@@ -113,7 +113,8 @@ func printTable(w io.Writer, base pipeline.Request, rows []row) error {
 		}
 		c := r.cand
 		t.Row(fmt.Sprint(i+1), r.family, r.kind, r.parts, fmt.Sprint(c.Order), fmt.Sprint(c.OpAmps), fmt.Sprint(c.Parts),
-			fmt.Sprintf("%.3f", c.DeviationDB), fmt.Sprintf("%.1f", c.YieldPct), series.Format{Digits: 3}.Value(c.MaxGBWHz, "Hz"))
+			fmt.Sprintf("%.3f", c.DeviationDB), fmt.Sprintf("%.1f", c.YieldPct), series.Format{Digits: 3}.Value(c.MaxGBWHz, "Hz"),
+			fmt.Sprintf("%.3g", c.NoiseUV))
 	}
 	if _, err := t.WriteTo(w); err != nil {
 		return err

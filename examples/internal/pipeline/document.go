@@ -85,6 +85,9 @@ type Candidate struct {
 	YieldPct float64 `json:"yield_pct"`
 	// MaxGBWHz is the largest op-amp gain-bandwidth any stage needs, Hz.
 	MaxGBWHz float64 `json:"max_gbw_hz"`
+	// NoiseUV is the snapped chain's output noise, µV RMS over the plot
+	// range (NoiseDoc.RMSUV).
+	NoiseUV float64 `json:"noise_uv"`
 	// Error says why the family could not give a buildable chain; empty
 	// when it could.
 	Error string `json:"error,omitempty"`

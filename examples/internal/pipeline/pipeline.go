@@ -110,7 +110,7 @@ func Evaluate(req Request, family string) (Result, error) {
 
 // summary is the Candidate of a successful document.
 func summary(d Document) Candidate {
-	c := Candidate{Family: d.Family, Order: d.Order, DeviationDB: d.DeviationDB, YieldPct: d.MonteCarlo.YieldPct}
+	c := Candidate{Family: d.Family, Order: d.Order, DeviationDB: d.DeviationDB, YieldPct: d.MonteCarlo.YieldPct, NoiseUV: d.Noise.RMSUV}
 	for _, s := range d.Stages {
 		c.OpAmps += s.OpAmps
 		c.Parts += len(s.Parts)
