@@ -43,3 +43,26 @@ func (w *Workspace) Adjoint(n *Netlist, values []float64, a Amp, s complex128, y
 	}
 	return nil
 }
+
+// Solve fills x with every unknown of n driven by a unit input at the
+// complex frequency s: the node voltages x[i] = V(i+1)/V(In), i <
+// n.Nodes, then the input source's current and the op-amps' output
+// currents. x must have length n.Dim(). It does not allocate; n must have
+// passed Check for len(values) and values must be positive. The error is
+// ErrSingular when the matrix is singular at s.
+func (w *Workspace) Solve(n *Netlist, values []float64, a Amp, s complex128, x []complex128) error {
+	d := w.stamp(n, values, a, s)
+	if len(x) != d {
+		panic("mna: Solve: x has the wrong length") // a caller's bug
+	}
+	if _, _, err := w.solveRec(d, 0, nil); err != nil {
+		return err
+	}
+	copy(x, w.b[:d])
+	for _, v := range x {
+		if v != v || real(v)-real(v) != 0 || imag(v)-imag(v) != 0 {
+			return ErrSingular // NaN or infinite
+		}
+	}
+	return nil
+}

@@ -127,3 +127,38 @@ func TestAdjointNyquist(t *testing.T) {
 		}
 	})
 }
+
+// TestSolveMatchesTransfer checks Solve's node voltages against Transfer
+// (the output node) and against the ladder's closed form at every node
+// (each node of an RC ladder is the output of the ladder cut there, loaded
+// by the rest: checked by solving the cut ladder with Transfer).
+func TestSolveMatchesTransfer(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		n := rapid.IntRange(1, 6).Draw(t, "n")
+		net := ladder(n)
+		values := make([]float64, 2*n)
+		for i := range values {
+			values[i] = math.Pow(10, rapid.Float64Range(-1, 1).Draw(t, "v"))
+		}
+		s := complex(0, RadiusOf(&net, values)*math.Pow(10, rapid.Float64Range(-1.5, 1.5).Draw(t, "f")))
+		var w Workspace
+		x := make([]complex128, net.Dim())
+		if err := w.Solve(&net, values, Amp{}, s, x); err != nil {
+			t.Fatal(err)
+		}
+		for node := 1; node <= net.Nodes; node++ {
+			cut := net
+			cut.Out = node
+			h, _, err := w.Transfer(&cut, values, Amp{}, s)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if e := cmplx.Abs(x[node-1] - h); e > 1e-12*(1+cmplx.Abs(h)) {
+				t.Fatalf("node %d: Solve %v, Transfer %v", node, x[node-1], h)
+			}
+		}
+		if cmplx.Abs(x[net.In-1]-1) > 1e-14 {
+			t.Fatalf("input node %v, want 1", x[net.In-1])
+		}
+	})
+}
