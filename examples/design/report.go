@@ -122,6 +122,34 @@ func report(w io.Writer, r pipeline.Result, vpeak float64, dir string, files []s
 	p("  slew rate for a %g V peak sine at %s (top of the passband): %.3g V/µs at least\n",
 		vpeak, hz(top), topology.SlewRateVPerUs(vpeak, top))
 
+	// Every op-amp output's swing with the input at the level that puts a
+	// vpeak sine at the chain's output at its peak frequency.
+	last := d.Stages[len(d.Stages)-1].Swing
+	outGain := 0.0
+	for _, w := range last {
+		if w.Node == "out" {
+			outGain = w.Gain
+		}
+	}
+	if outGain > 0 {
+		p("\nOp-amp output swing with the input at %.3g V peak (%g V peak at the output where it peaks):\n", vpeak/outGain, vpeak)
+		tw = &textable.Table{Indent: "  ", Right: []bool{false, false, true, true, true, false}}
+		tw.Row("op-amp", "node", "gain", "at", "V peak", "")
+		for _, s := range d.Stages {
+			for _, w := range s.Swing {
+				at, mark := "DC", ""
+				if w.Hz > 0 {
+					at = hz(w.Hz)
+				}
+				if w.Gain > 1.01*outGain {
+					mark = "above the output"
+				}
+				tw.Row(w.Designator, w.Node, fmt.Sprintf("%.3g", w.Gain), at, fmt.Sprintf("%.3g", vpeak*w.Gain/outGain), mark)
+			}
+		}
+		tw.WriteTo(&b)
+	}
+
 	nz := d.Noise
 	p("\nOutput noise (snapped parts; resistors at %.0f °C; op-amps %g nV/√Hz and %g pA/√Hz, ideal otherwise):\n",
 		nz.TempK-273.15, nz.AmpNoiseNV, nz.AmpNoisePA)

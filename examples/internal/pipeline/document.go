@@ -126,6 +126,21 @@ type StageDoc struct {
 	// 100·max(1, |gain|)·max(1, Q)·f0 (topology.Circuit.RuleOfThumbGBWHz),
 	// for comparison.
 	RuleOfThumbGBWHz float64 `json:"rule_of_thumb_gbw_hz"`
+	// Swing lists how far each of the stage's op-amp outputs swings: its
+	// peak gain from the chain's input over frequency
+	// (topology.Chain.AmpPeaks of the snapped chain).
+	Swing []SwingDoc `json:"swing"`
+}
+
+// SwingDoc is one op-amp output's peak gain from the chain's input.
+type SwingDoc struct {
+	// Designator is the op-amp's ("U2.U1": stage U2, its op-amp U1).
+	Designator string `json:"designator"`
+	// Node is the circuit node it drives ("bp", "out", ...).
+	Node string `json:"node"`
+	// Gain is the peak of |V(node)/V(input)|; Hz where it peaks (0: DC).
+	Gain float64 `json:"gain"`
+	Hz   float64 `json:"hz"`
 }
 
 // PartDoc is one resistor or capacitor of a stage.

@@ -291,6 +291,14 @@ func evaluate(ctx context.Context, req Request, p policy, fam string) (Result, e
 	if d.Noise, err = noiseOf(snap.Chain, req); err != nil {
 		return r, err
 	}
+	peaks, err := snap.Chain.AmpPeaks()
+	if err != nil {
+		return r, err
+	}
+	for _, pk := range peaks {
+		sd := &d.Stages[pk.Stage]
+		sd.Swing = append(sd.Swing, SwingDoc{Designator: series.Designator(pk.Stage, pk.Ref), Node: pk.Node, Gain: pk.Gain, Hz: pk.Hz})
+	}
 	for _, l := range lines {
 		d.BOM = append(d.BOM, BOMLine{
 			Kind:         l.Kind.String(),
@@ -365,6 +373,9 @@ func (d Document) check() error {
 		errs = append(errs, bad(pre+"f0_err_pct", s.F0ErrPct), bad(pre+"q_err_pct", s.QErrPct),
 			bad(pre+"gain_err_pct", s.GainErrPct), bad(pre+"gbw_hz", s.GBWHz),
 			bad(pre+"rule_of_thumb_gbw_hz", s.RuleOfThumbGBWHz))
+		for k, w := range s.Swing {
+			errs = append(errs, bad(fmt.Sprintf("%sswing[%d].gain", pre, k), w.Gain), bad(fmt.Sprintf("%sswing[%d].hz", pre, k), w.Hz))
+		}
 	}
 	return errors.Join(errs...)
 }

@@ -118,6 +118,23 @@ func TestDocumentIsConsistent(t *testing.T) {
 		if !(s.GBWHz > 0) || !(s.RuleOfThumbGBWHz > 0) {
 			t.Errorf("stage %d: GBW %g, rule %g", i, s.GBWHz, s.RuleOfThumbGBWHz)
 		}
+		// One swing figure per op-amp; the stage output's is at least the
+		// chain's gain up to it at every analysis frequency.
+		if len(s.Swing) != c.OpAmps() {
+			t.Errorf("stage %d: %d swing figures for %d op-amps", i, len(s.Swing), c.OpAmps())
+		}
+		for _, w := range s.Swing {
+			if w.Node != "out" {
+				continue
+			}
+			upTo := topology.Chain{Circuits: r.Snapped.Circuits[:i+1]}
+			for _, f := range AnalysisHz(d.Request.Mask) {
+				if g := abs(upTo.AtHz(f)); g > w.Gain*(1+1e-12) {
+					t.Errorf("stage %d output: |H| %g at %g Hz above its peak %g", i, g, f, w.Gain)
+					break
+				}
+			}
+		}
 	}
 	bomParts := 0
 	for _, l := range d.BOM {
