@@ -61,6 +61,13 @@ func FuzzChainJSON(f *testing.F) {
 			t.Fatalf("NoiseAt %g without an error", d)
 		}
 		_, _ = ch.NoiseSources(noise, 1e3)
+		if pk, err := ch.AmpPeaks(); err == nil {
+			for _, p := range pk {
+				if !(p.Gain >= 0 && p.Gain <= math.MaxFloat64) {
+					t.Fatalf("AmpPeaks %+v without an error", p)
+				}
+			}
+		}
 		if v, err := ch.NoiseRMS(noise, 1e3, 2e3); err == nil && !(v >= 0 && v <= math.MaxFloat64) {
 			t.Fatalf("NoiseRMS %g without an error", v)
 		}

@@ -22,6 +22,10 @@ type AmpPeak struct {
 	Hz    float64 `json:"hz"`    // where it peaks; 0 for DC
 }
 
+// maxPeakDecades bounds the span of the stages' frequencies AmpPeaks
+// grids (40 points a decade): far beyond any real chain.
+const maxPeakDecades = 60
+
 // ampNode is one op-amp output of a chain.
 type ampNode struct {
 	stage, amp int // circuit index, op-amp index within it
@@ -43,8 +47,9 @@ type ampNode struct {
 // step to its highest could be missed; the resonances, where such peaks
 // lie, have the finer steps.
 //
-// Errors wrap ErrStage for an empty chain and are otherwise those of the
-// circuits' analysis (ErrParts or the template errors), naming the stage.
+// Errors wrap ErrStage for an empty chain or stages whose frequencies span
+// more than 60 decades, and are otherwise those of the circuits' analysis
+// (ErrParts or the template errors), naming the stage.
 func (c Chain) AmpPeaks() ([]AmpPeak, error) {
 	if len(c.Circuits) == 0 {
 		return nil, fmt.Errorf("topology: op-amp peaks of an empty chain: %w", ErrStage)
@@ -79,6 +84,10 @@ func (c Chain) AmpPeaks() ([]AmpPeak, error) {
 				fLo, fHi = min(fLo, f), max(fHi, f)
 			}
 		}
+	}
+	if !(fLo > 0) || math.Log10(fHi/fLo) > maxPeakDecades {
+		return nil, fmt.Errorf("topology: op-amp peaks: the stages' frequencies %g to %g Hz span more than %d decades: %w",
+			fLo, fHi, maxPeakDecades, ErrStage)
 	}
 	// gains sets g[k] to |V(node k)/V(chain input)| at f hertz for every
 	// op-amp output k of the first `upto` circuits; false when a circuit's

@@ -111,6 +111,17 @@ func TestAmpPeaksErrors(t *testing.T) {
 	if _, err := (Chain{}).AmpPeaks(); !errors.Is(err, ErrStage) {
 		t.Errorf("empty chain: %v", err)
 	}
+	wide := noiseDemoChain(t)
+	wide.Circuits = append([]Circuit(nil), wide.Circuits...)
+	far := filter.Stage{Kind: filter.LowpassStage, Order: 1, F0Hz: 1e70, Gain: 1}
+	fc, err := RealizeStage(far, Options{Kind: RCFollower, RMaxOhm: 1e100, CMinF: 1e-300})
+	if err != nil {
+		t.Fatal(err)
+	}
+	wide.Circuits = append(wide.Circuits, fc)
+	if _, err := wide.AmpPeaks(); !errors.Is(err, ErrStage) {
+		t.Errorf("stages 68 decades apart: %v", err)
+	}
 	c := noiseDemoChain(t).Circuits[1]
 	bad := c
 	bad.Parts = append([]Part(nil), c.Parts...)
