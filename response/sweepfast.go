@@ -330,6 +330,199 @@ func pointPos(g0 float64, neg bool, z, p *factorSet, w float64) (gdb, phase, del
 	return gdb, phase, delay, true
 }
 
+// sweepPlain is the loop of sweepTransferFast for a sweep whose running
+// product cannot leave the range where pointPos rescales it (plainBound):
+// pointPos's arithmetic in the same order, without the tests of the
+// product's size, and with the point's computation inside the loop over
+// the frequencies (no call per point). The axis zeros' real factors are
+// multiplied into one number first; the turns they add follow from the
+// count c of negative factors alone (the product's imaginary part is then
+// ±0 with the sign of the product, each negative factor having turned it
+// by π: atan2 of (R, ±0) plus (c+1)/2 whole turns is cπ). A point with
+// ω ≤ 0 or a zero product goes to sweepPointSlow.
+func sweepPlain(dst []Point, h filter.Transfer, hz []float64, g0 float64, neg bool, z, p *factorSet) {
+	axis, zpairs, ppairs := z.axis[:z.na], z.pairs[:z.np], p.pairs[:p.np]
+	singles := z.ns + p.ns
+	ph0 := 0.0
+	if neg {
+		ph0 = math.Pi
+	}
+	dst = dst[:len(hz)]
+points:
+	for i, f := range hz {
+		w := 2 * math.Pi * f
+		if !(w > 0) {
+			sweepPointSlow(dst, i, h, g0, neg, z, p, f)
+			continue
+		}
+		w2 := w * w
+		pr, c := 1.0, 0
+		for _, b := range axis {
+			re := (b - w) * (b + w)
+			c += int(math.Float64bits(re) >> 63)
+			pr *= re
+		}
+		pi := math.Copysign(0, pr)
+		k := (c + 1) >> 1 // whole turns
+		delay := 0.0
+		for _, f := range zpairs {
+			re := f.a2 + (f.beta-w)*(f.beta+w)
+			im := f.c1 * w
+			delay -= f.c1 * (f.c0 + w2) / (re*re + im*im)
+			nr, ni := pr*re-pi*im, pr*im+pi*re
+			k += int((math.Float64bits(ni) &^ math.Float64bits(pi)) >> 63)
+			pr, pi = nr, ni
+		}
+		for _, f := range ppairs {
+			re := f.a2 + (f.beta-w)*(f.beta+w)
+			im := f.c1 * w
+			inv := 1 / (re*re + im*im)
+			delay += f.c1 * (f.c0 + w2) * inv
+			xr, xi := re*inv, -im*inv
+			nr, ni := pr*xr-pi*xi, pr*xi+pi*xr
+			k -= int((math.Float64bits(pi) &^ math.Float64bits(ni)) >> 63)
+			pr, pi = nr, ni
+		}
+		for j := range singles {
+			pole := j >= z.ns
+			r := z.singles[min(j, maxFastSingles-1)]
+			if pole {
+				r = p.singles[j-z.ns]
+			}
+			nr, ni, dk, slope, good := singleAt(pr, pi, r, w, pole)
+			if !good {
+				sweepPointSlow(dst, i, h, g0, neg, z, p, f)
+				continue points
+			}
+			if pole {
+				delay += slope
+			} else {
+				delay -= slope
+			}
+			pr, pi, k = nr, ni, k+dk
+		}
+		m := pr*pr + pi*pi
+		if !(m > 0 && m <= math.MaxFloat64) {
+			sweepPointSlow(dst, i, h, g0, neg, z, p, f)
+			continue
+		}
+		phase := atan2Finite(pi, pr) + 2*math.Pi*float64(k) + ph0
+		dst[i] = Point{Hz: f, GainDB: g0 + dbPerLn*lnNormal(m), PhaseDeg: phase * degPerRad, DelayS: delay}
+	}
+}
+
+// plainLimit bounds |log2| of the running product of pointPlain: 2⁻⁵⁰⁰ to
+// 2⁵⁰⁰, so that |P|², the factors' own squared sizes and the delay terms
+// stay normal and finite.
+const plainLimit = 500
+
+// plainBound reports whether pointPlain may sweep the factors z (zeros)
+// and p (poles) at every frequency ω with wLo ≤ ω ≤ wHi (rad/s, wLo > 0).
+// Each factor's size has bounds there: a pair's quadratic lies between a²
+// (a = |Re r| > 0; |jω − r| ≥ |Re r|) and (ω + |r|)², a single root's
+// factor between |Re r| (or ω for a root at the origin) and ω + |r|; an axis
+// zero pair's real factor (β−ω)(β+ω) is at most (ω + β)² and, unless it is
+// exactly zero (which makes the whole product zero, a case pointPlain
+// hands back), at least β²·2⁻⁵³ in size. The running product after any
+// number of factors then lies between the sums of the negative parts and of
+// the positive parts of the factors' log bounds, which must stay within
+// ±plainLimit. Any root on the jω axis other than those (an unpaired one, a
+// pole) makes it report false.
+func plainBound(z, p *factorSet, wLo, wHi float64) bool {
+	if !(wLo > 0 && wHi <= 0x1p200) {
+		return false
+	}
+	lo, hi := 0, 0 // sums of the negative and the positive log2 bounds
+	add := func(l, h int, pole bool) {
+		if pole {
+			l, h = -h, -l
+		}
+		lo += min(l, 0)
+		hi += max(h, 0)
+	}
+	// lg returns ⌊log2 v⌋ − 1 and ⌈log2 v⌉ + 1 bounds for positive finite v
+	// (a NaN or a zero gives bounds beyond any limit).
+	lg := func(v float64) (int, int) {
+		if !(v > 0 && v <= math.MaxFloat64) {
+			return -1 << 20, 1 << 20
+		}
+		_, e := math.Frexp(v) // v in [2^(e−1), 2^e)
+		return e - 2, e + 1
+	}
+	for _, b := range z.axis[:z.na] {
+		l, _ := lg(b * b * 0x1p-53)
+		_, h := lg((wHi + b) * (wHi + b))
+		add(l, h, false)
+	}
+	for i, set := range [2]*factorSet{z, p} {
+		for _, f := range set.pairs[:set.np] {
+			r := math.Sqrt(f.c0)
+			l, _ := lg(f.a2)
+			_, h := lg((wHi + r) * (wHi + r))
+			add(l, h, i == 1)
+		}
+		for _, r := range set.singles[:set.ns] {
+			a := math.Abs(real(r))
+			if a <= onAxisRel*(math.Abs(real(r))+math.Abs(imag(r))) {
+				if imag(r) != 0 {
+					return false
+				}
+				a = wLo // a root at the origin: |jω| = ω
+			}
+			l, _ := lg(a)
+			_, h := lg(wHi + cmplxAbs(r))
+			add(l, h, i == 1)
+		}
+	}
+	return lo >= -plainLimit && hi <= plainLimit
+}
+
+// cmplxAbs is |r| without the care for overflow that plainBound, whose
+// roots are far below the top of the range, does not need (a root that
+// overflows here gives +Inf, which the bounds refuse).
+func cmplxAbs(r complex128) float64 { return math.Sqrt(real(r)*real(r) + imag(r)*imag(r)) }
+
+// lnTableBits is the number of leading mantissa bits that index the
+// logarithm's table (128 entries).
+const lnTableBits = 7
+
+// lnInv and lnTab are the logarithm's table: for the mantissas m in
+// [1 + i/128, 1 + (i+1)/128), lnInv[i] is 1/(1 + (i + 1/2)/128) rounded to
+// float64 and lnTab[i] = −ln(lnInv[i]) of that rounded value, so that
+// ln m = lnTab[i] + ln(m·lnInv[i]) holds whatever the rounding of lnInv.
+var lnInv, lnTab = func() (inv, tab [1 << lnTableBits]float64) {
+	for i := range inv {
+		inv[i] = 1 / (1 + (float64(i)+0.5)/(1<<lnTableBits))
+		tab[i] = -math.Log(inv[i])
+	}
+	return inv, tab
+}()
+
+// lnNormal returns ln x for a positive normal finite x (the sweep's |H|²
+// within 2^±1000, by plainBound), without a division: x = 2^e·m with m in
+// [1, 2), m·lnInv[i] = 1 + r with |r| < 2⁻⁸, and ln(1 + r) by its Taylor
+// series to r⁶ (the first term left out, r⁷/7, is below 3e-18). Its error
+// is a few 1e-16 absolute plus an ulp of the result (the rounding of m·lnInv
+// and of the table), far inside the sweep's gain accuracy (TestLnNormal).
+// e·ln 2 is formed as e·ln2Hi (exact: ln2Hi has 32 trailing zero bits)
+// plus e·ln2Lo.
+func lnNormal(x float64) float64 {
+	const (
+		ln2Hi = 6.93147180369123816490e-01 // 0x3fe62e42fee00000
+		ln2Lo = 1.90821492927058770002e-10 // ln 2 − ln2Hi
+	)
+	b := math.Float64bits(x)
+	e := float64(int(b>>52) - 1023)
+	i := (b >> (52 - lnTableBits)) & (1<<lnTableBits - 1)
+	m := math.Float64frombits(b&(1<<52-1) | 1023<<52)
+	r := m*lnInv[i] - 1 // exact subtraction: m·lnInv[i] is within 2⁻⁸ of 1
+	p := r + r*r*(-1.0/2+r*(1.0/3+r*(-1.0/4+r*(1.0/5-r*(1.0/6)))))
+	return e*ln2Hi + (lnTab[i] + (e*ln2Lo + p))
+}
+
+// dbPerLn is 10/ln 10: 10·log10 x = dbPerLn·ln x.
+const dbPerLn = 10 / math.Ln10
+
 // atan2Finite is math.Atan2 for finite y and x, not both zero, to within
 // an ulp or two of it (TestAtan2Finite): the same reduction to [0, π/4]
 // octant by octant and the same rational approximation (the Cephes one
@@ -418,6 +611,17 @@ func sweepTransferFast(dst []Point, h filter.Transfer, hz []float64) {
 	}
 	g0 := 20 * math.Log10(math.Abs(h.Gain))
 	neg := h.Gain < 0
+	// The range of the positive frequencies, for plainBound.
+	wLo, wHi := math.Inf(1), 0.0
+	for _, f := range hz {
+		if f > 0 {
+			wLo, wHi = min(wLo, f), max(wHi, f)
+		}
+	}
+	if plainBound(&z, &p, 2*math.Pi*wLo, 2*math.Pi*wHi) {
+		sweepPlain(dst, h, hz, g0, neg, &z, &p)
+		return
+	}
 	for i, f := range hz {
 		w := 2 * math.Pi * f
 		if w > 0 {
@@ -426,14 +630,21 @@ func sweepTransferFast(dst []Point, h filter.Transfer, hz []float64) {
 				continue
 			}
 		}
-		if gdb, ph, d, ok := pointFast(g0, neg, &z, &p, w); ok {
-			dst[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * degPerRad, DelayS: d}
-			continue
-		}
-		ph, d := phaseDelay(h, w)
-		dst[i] = Point{Hz: f, GainDB: gainDB(h.At(complex(0, w))), PhaseDeg: ph * 180 / math.Pi, DelayS: d}
-		if math.IsNaN(f) {
-			dst[i] = Point{math.NaN(), math.NaN(), math.NaN(), math.NaN()}
-		}
+		sweepPointSlow(dst, i, h, g0, neg, &z, &p, f)
+	}
+}
+
+// sweepPointSlow sets dst[i], at f Hz, by pointFast, or where that cannot
+// be done by the per-factor path of sweep.go.
+func sweepPointSlow(dst []Point, i int, h filter.Transfer, g0 float64, neg bool, z, p *factorSet, f float64) {
+	w := 2 * math.Pi * f
+	if gdb, ph, d, ok := pointFast(g0, neg, z, p, w); ok {
+		dst[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * degPerRad, DelayS: d}
+		return
+	}
+	ph, d := phaseDelay(h, w)
+	dst[i] = Point{Hz: f, GainDB: gainDB(h.At(complex(0, w))), PhaseDeg: ph * 180 / math.Pi, DelayS: d}
+	if math.IsNaN(f) {
+		dst[i] = Point{math.NaN(), math.NaN(), math.NaN(), math.NaN()}
 	}
 }
