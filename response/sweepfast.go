@@ -166,6 +166,23 @@ func singleAt(pr, pi float64, r complex128, w float64, pole bool) (nr, ni float6
 	return nr, ni, dk, a / m, true
 }
 
+// singleStep multiplies (pr, pi) by the factor of single root j of z and
+// p (the zeros' first, then the poles') at ω rad/s (see singleAt) and
+// returns the product, the change of the turn count and the root's term of
+// the delay, with its sign (+ for a pole, − for a zero).
+func singleStep(z, p *factorSet, j int, pr, pi, w float64) (nr, ni float64, dk int, delay float64, ok bool) {
+	pole := j >= z.ns
+	r := z.singles[min(j, maxFastSingles-1)]
+	if pole {
+		r = p.singles[j-z.ns]
+	}
+	nr, ni, dk, delay, ok = singleAt(pr, pi, r, w, pole)
+	if !pole {
+		delay = -delay
+	}
+	return nr, ni, dk, delay, ok
+}
+
 // pointFast returns the gain (dB), phase (radians) and delay (s) at
 // ω rad/s of the transfer with gain g0 dB, sign flip neg, zeros z and
 // poles p, or ok = false where the per-factor path must be used.
@@ -221,21 +238,11 @@ func pointFast(g0 float64, neg bool, z, p *factorSet, w float64) (gdb, phase, de
 		}
 	}
 	for i := range z.ns + p.ns {
-		pole := i >= z.ns
-		r := z.singles[min(i, maxFastSingles-1)]
-		if pole {
-			r = p.singles[i-z.ns]
-		}
-		nr, ni, dk, slope, good := singleAt(pr, pi, r, w, pole)
+		nr, ni, dk, d, good := singleStep(z, p, i, pr, pi, w)
 		if !good {
 			return 0, 0, 0, false
 		}
-		if pole {
-			delay += slope
-		} else {
-			delay -= slope
-		}
-		pr, pi, k = nr, ni, k+dk
+		pr, pi, k, delay = nr, ni, k+dk, delay+d
 		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
 			pr, pi, e = rescale(pr, pi, s, e)
 		}
@@ -250,6 +257,35 @@ func pointFast(g0 float64, neg bool, z, p *factorSet, w float64) (gdb, phase, de
 	}
 	gdb = g0 + 10*math.Log10(m) + db20Log2*float64(e)
 	return gdb, phase, delay, true
+}
+
+// zeroPairAt multiplies (pr, pi) by a zero pair's quadratic factor at
+// ω > 0 (in the upper half-plane: 2aω ≥ 0) and returns the product, the
+// change of the turn count (+1 from the upper to the lower half-plane) and
+// the pair's delay term (w2 = ω²).
+func (f *pairFactor) zeroPairAt(pr, pi, w, w2 float64) (nr, ni, delay float64, dk int) {
+	re := f.a2 + (f.beta-w)*(f.beta+w)
+	im := f.c1 * w
+	nr, ni = pr*re-pi*im, pr*im+pi*re
+	return nr, ni, f.c1 * (f.c0 + w2) / (re*re + im*im), int((math.Float64bits(ni) &^ math.Float64bits(pi)) >> 63)
+}
+
+// polePairAt multiplies (pr, pi) by a pole pair's multiplier conj(f)/|f|²
+// at ω > 0 and returns the product and the pair's delay term. The
+// multiplier lies in the lower half-plane: the turn count falls by one
+// where the product passes from the lower to the upper half-plane
+// (lowerToUpper).
+func (f *pairFactor) polePairAt(pr, pi, w, w2 float64) (nr, ni, delay float64) {
+	re := f.a2 + (f.beta-w)*(f.beta+w)
+	im := f.c1 * w
+	inv := 1 / (re*re + im*im)
+	return (pr*re + pi*im) * inv, (pi*re - pr*im) * inv, f.c1 * (f.c0 + w2) * inv
+}
+
+// lowerToUpper is 1 where a product passed from the lower half-plane (pi,
+// sign bit set) to the upper one (ni, sign bit clear), else 0.
+func lowerToUpper(pi, ni float64) int {
+	return int((math.Float64bits(pi) &^ math.Float64bits(ni)) >> 63)
 }
 
 // pointPos is pointFast for ω > 0, where the turn rule takes one form per
@@ -272,48 +308,26 @@ func pointPos(g0 float64, neg bool, z, p *factorSet, w float64) (gdb, phase, del
 			pr, pi, e = rescale(pr, pi, s, e)
 		}
 	}
-	for _, f := range z.pairs[:z.np] {
-		re := f.a2 + (f.beta-w)*(f.beta+w)
-		im := f.c1 * w
-		delay -= f.c1 * (f.c0 + w2) / (re*re + im*im)
-		nr, ni := pr*re-pi*im, pr*im+pi*re
-		// Upper-half-plane multiplier: +1 from upper to lower.
-		k += int((math.Float64bits(ni) &^ math.Float64bits(pi)) >> 63)
-		pr, pi = nr, ni
+	for i := range z.pairs[:z.np] {
+		nr, ni, d, dk := z.pairs[i].zeroPairAt(pr, pi, w, w2)
+		pr, pi, k, delay = nr, ni, k+dk, delay-d
 		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
 			pr, pi, e = rescale(pr, pi, s, e)
 		}
 	}
-	for _, f := range p.pairs[:p.np] {
-		re := f.a2 + (f.beta-w)*(f.beta+w)
-		im := f.c1 * w
-		inv := 1 / (re*re + im*im)
-		delay += f.c1 * (f.c0 + w2) * inv
-		xr, xi := re*inv, -im*inv
-		nr, ni := pr*xr-pi*xi, pr*xi+pi*xr
-		// Lower-half-plane multiplier: −1 from lower to upper.
-		k -= int((math.Float64bits(pi) &^ math.Float64bits(ni)) >> 63)
-		pr, pi = nr, ni
+	for i := range p.pairs[:p.np] {
+		nr, ni, d := p.pairs[i].polePairAt(pr, pi, w, w2)
+		pr, pi, k, delay = nr, ni, k-lowerToUpper(pi, ni), delay+d
 		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
 			pr, pi, e = rescale(pr, pi, s, e)
 		}
 	}
 	for i := range z.ns + p.ns {
-		pole := i >= z.ns
-		r := z.singles[min(i, maxFastSingles-1)]
-		if pole {
-			r = p.singles[i-z.ns]
-		}
-		nr, ni, dk, slope, good := singleAt(pr, pi, r, w, pole)
+		nr, ni, dk, d, good := singleStep(z, p, i, pr, pi, w)
 		if !good {
 			return 0, 0, 0, false
 		}
-		if pole {
-			delay += slope
-		} else {
-			delay -= slope
-		}
-		pr, pi, k = nr, ni, k+dk
+		pr, pi, k, delay = nr, ni, k+dk, delay+d
 		if s := math.Abs(pr) + math.Abs(pi); s > prodHi || s < prodLo {
 			pr, pi, e = rescale(pr, pi, s, e)
 		}
@@ -365,41 +379,21 @@ points:
 		pi := math.Copysign(0, pr)
 		k := (c + 1) >> 1 // whole turns
 		delay := 0.0
-		for _, f := range zpairs {
-			re := f.a2 + (f.beta-w)*(f.beta+w)
-			im := f.c1 * w
-			delay -= f.c1 * (f.c0 + w2) / (re*re + im*im)
-			nr, ni := pr*re-pi*im, pr*im+pi*re
-			k += int((math.Float64bits(ni) &^ math.Float64bits(pi)) >> 63)
-			pr, pi = nr, ni
+		for j := range zpairs {
+			nr, ni, d, dk := zpairs[j].zeroPairAt(pr, pi, w, w2)
+			pr, pi, k, delay = nr, ni, k+dk, delay-d
 		}
-		for _, f := range ppairs {
-			re := f.a2 + (f.beta-w)*(f.beta+w)
-			im := f.c1 * w
-			inv := 1 / (re*re + im*im)
-			delay += f.c1 * (f.c0 + w2) * inv
-			xr, xi := re*inv, -im*inv
-			nr, ni := pr*xr-pi*xi, pr*xi+pi*xr
-			k -= int((math.Float64bits(pi) &^ math.Float64bits(ni)) >> 63)
-			pr, pi = nr, ni
+		for j := range ppairs {
+			nr, ni, d := ppairs[j].polePairAt(pr, pi, w, w2)
+			pr, pi, k, delay = nr, ni, k-lowerToUpper(pi, ni), delay+d
 		}
 		for j := range singles {
-			pole := j >= z.ns
-			r := z.singles[min(j, maxFastSingles-1)]
-			if pole {
-				r = p.singles[j-z.ns]
-			}
-			nr, ni, dk, slope, good := singleAt(pr, pi, r, w, pole)
+			nr, ni, dk, d, good := singleStep(z, p, j, pr, pi, w)
 			if !good {
 				sweepPointSlow(dst, i, h, g0, neg, z, p, f)
 				continue points
 			}
-			if pole {
-				delay += slope
-			} else {
-				delay -= slope
-			}
-			pr, pi, k = nr, ni, k+dk
+			pr, pi, k, delay = nr, ni, k+dk, delay+d
 		}
 		m := pr*pr + pi*pi
 		if !(m > 0 && m <= math.MaxFloat64) {
