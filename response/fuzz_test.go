@@ -113,3 +113,54 @@ func FuzzStepTransfer(f *testing.F) {
 		}
 	})
 }
+
+// FuzzSweepTransfer: any transfer of a pole pair, a real pole, a jω-axis
+// zero pair and a zero at the origin, swept at any three frequencies,
+// gives points without a panic that equal the per-factor reference
+// (sweep.go) wherever that reference is finite, whichever of the fast
+// paths (sweepPlain where plainBound holds, pointPos and pointFast
+// otherwise) the grid takes: to the fast path's tolerances, the phase's
+// and the gain's taken relative to 1 + their size (the fuzzer reaches
+// gains of thousands of dB and phases of many turns, where each path's
+// rounding grows with the value it sums).
+func FuzzSweepTransfer(f *testing.F) {
+	f.Add(-1.0, 5.0, -2.0, 3.0, 1.0, 0.1, 1.0, 10.0)
+	f.Add(-1e-3, 1e3, -1e3, 1e3, -2.0, 159.0, 159.15, 1e6)
+	f.Add(-1e-150, 1e150, -1e150, 1e-150, 1e300, 1e-300, 1e150, 1e200)
+	f.Add(-1.0, 1.0, -1.0, 0.0, 1.0, math.NaN(), math.Inf(1), -1.0)
+	f.Fuzz(func(t *testing.T, re, im, real2, zw, gain, f1, f2, f3 float64) {
+		if !(re < 0) || !(real2 < 0) || math.IsInf(re, 0) || math.IsInf(im, 0) || math.IsInf(real2, 0) || math.IsInf(zw, 0) ||
+			math.IsNaN(im) || math.IsNaN(zw) || math.IsNaN(gain) || math.IsInf(gain, 0) {
+			t.Skip("not a stable transfer of finite roots")
+		}
+		h := filter.Transfer{
+			Poles: []complex128{complex(re, im), complex(re, -im), complex(real2, 0)},
+			Zeros: []complex128{complex(0, zw), complex(0, -zw), 0},
+			Gain:  gain,
+		}
+		hz := []float64{f1, f2, f3}
+		got := SweepInto(make([]Point, 3), h, hz)
+		want := make([]Point, 3)
+		sweepTransfer(want, h, hz)
+		for i := range hz {
+			g, w := got[i], want[i]
+			if math.IsNaN(hz[i]) {
+				if !math.IsNaN(g.GainDB) || !math.IsNaN(g.PhaseDeg) || !math.IsNaN(g.DelayS) {
+					t.Fatalf("NaN frequency: %+v", g)
+				}
+				continue
+			}
+			finite := !math.IsInf(w.GainDB, 0) && !math.IsNaN(w.GainDB) && !math.IsNaN(w.PhaseDeg) &&
+				!math.IsInf(w.DelayS, 0) && !math.IsNaN(w.DelayS) && !math.IsInf(hz[i], 0)
+			if !finite {
+				continue
+			}
+			ds := delayScale(h, 2*math.Pi*hz[i])
+			if math.Abs(g.PhaseDeg-w.PhaseDeg) > fastPhaseTolDeg*(1+math.Abs(w.PhaseDeg)) ||
+				!(math.Abs(g.GainDB-w.GainDB) <= fastGainTolDB*(1+math.Abs(w.GainDB))) ||
+				!(math.Abs(g.DelayS-w.DelayS) <= fastDelayTolRel*ds) {
+				t.Fatalf("at %g Hz: fast %+v, reference %+v (delay scale %g)", hz[i], g, w, ds)
+			}
+		}
+	})
+}
