@@ -405,22 +405,24 @@ points:
 	}
 }
 
-// plainLimit bounds |log2| of the running product of pointPlain: 2⁻⁵⁰⁰ to
+// plainLimit bounds |log2| of the running product of sweepPlain: 2⁻⁵⁰⁰ to
 // 2⁵⁰⁰, so that |P|², the factors' own squared sizes and the delay terms
 // stay normal and finite.
 const plainLimit = 500
 
-// plainBound reports whether pointPlain may sweep the factors z (zeros)
+// plainBound reports whether sweepPlain may sweep the factors z (zeros)
 // and p (poles) at every frequency ω with wLo ≤ ω ≤ wHi (rad/s, wLo > 0).
 // Each factor's size has bounds there: a pair's quadratic lies between a²
 // (a = |Re r| > 0; |jω − r| ≥ |Re r|) and (ω + |r|)², a single root's
 // factor between |Re r| (or ω for a root at the origin) and ω + |r|; an axis
 // zero pair's real factor (β−ω)(β+ω) is at most (ω + β)² and, unless it is
-// exactly zero (which makes the whole product zero, a case pointPlain
-// hands back), at least β²·2⁻⁵³ in size. The running product after any
-// number of factors then lies between the sums of the negative parts and of
-// the positive parts of the factors' log bounds, which must stay within
-// ±plainLimit. Any root on the jω axis other than those (an unpaired one, a
+// exactly zero (which makes the whole product zero, a case sweepPlain
+// hands back), at least β²·2⁻⁵⁴ in size: two different floats differ by at
+// least an ulp of the lesser, more than 2⁻⁵³ of it, so |β − ω| > 2⁻⁵⁴·β
+// where ω ≥ β/2 (and β + ω ≥ β), and |β − ω| ≥ β/2 below. The running
+// product after any number of factors then lies between the sums of the
+// negative parts and of the positive parts of the factors' log bounds,
+// which must stay within ±plainLimit. Any root on the jω axis other than those (an unpaired one, a
 // pole) makes it report false.
 func plainBound(z, p *factorSet, wLo, wHi float64) bool {
 	if !(wLo > 0 && wHi <= 0x1p200) {
@@ -444,7 +446,7 @@ func plainBound(z, p *factorSet, wLo, wHi float64) bool {
 		return e - 2, e + 1
 	}
 	for _, b := range z.axis[:z.na] {
-		l, _ := lg(b * b * 0x1p-53)
+		l, _ := lg(b * b * 0x1p-54)
 		_, h := lg((wHi + b) * (wHi + b))
 		add(l, h, false)
 	}

@@ -322,3 +322,22 @@ func TestPropPlainBoundSound(t *testing.T) {
 		t.Errorf("plainBound took %d and refused %d transfers: the test should see both", taken, refused)
 	}
 }
+
+// TestPropAxisFactorFloor checks the floor plainBound takes for an axis
+// zero's real factor: (β−ω)(β+ω), as the sweep computes it, is zero or at
+// least β²·2⁻⁵⁴ in size, for ω the floats next to β and any ω drawn near
+// it or anywhere (rapid).
+func TestPropAxisFactorFloor(t *testing.T) {
+	rapid.Check(t, func(t *rapid.T) {
+		b := math.Ldexp(rapid.Float64Range(1, 2).Draw(t, "beta mantissa"), rapid.IntRange(-400, 400).Draw(t, "beta exp"))
+		ws := []float64{math.Nextafter(b, 0), math.Nextafter(b, math.Inf(1)), b,
+			b * (1 + rapid.Float64Range(-1e-12, 1e-12).Draw(t, "near")),
+			b * math.Pow(2, rapid.Float64Range(-3, 3).Draw(t, "far"))}
+		for _, w := range ws {
+			re := (b - w) * (b + w)
+			if re != 0 && !(math.Abs(re) >= b*b*0x1p-54) {
+				t.Fatalf("β %g, ω %g: factor %g below β²·2⁻⁵⁴ = %g", b, w, re, b*b*0x1p-54)
+			}
+		}
+	})
+}
