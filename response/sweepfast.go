@@ -2,6 +2,7 @@ package response
 
 import (
 	"math"
+	"math/cmplx"
 
 	"github.com/rolloff/rolloff/filter"
 )
@@ -466,17 +467,12 @@ func plainBound(z, p *factorSet, wLo, wHi float64) bool {
 				a = wLo // a root at the origin: |jω| = ω
 			}
 			l, _ := lg(a)
-			_, h := lg(wHi + cmplxAbs(r))
+			_, h := lg(wHi + cmplx.Abs(r))
 			add(l, h, i == 1)
 		}
 	}
 	return lo >= -plainLimit && hi <= plainLimit
 }
-
-// cmplxAbs is |r| without the care for overflow that plainBound, whose
-// roots are far below the top of the range, does not need (a root that
-// overflows here gives +Inf, which the bounds refuse).
-func cmplxAbs(r complex128) float64 { return math.Sqrt(real(r)*real(r) + imag(r)*imag(r)) }
 
 // lnTableBits is the number of leading mantissa bits that index the
 // logarithm's table (256 entries).
@@ -618,15 +614,22 @@ func sweepTransferFast(dst []Point, h filter.Transfer, hz []float64) {
 		sweepPlain(dst, h, hz, g0, neg, &z, &p)
 		return
 	}
+	sweepRescaled(dst, h, hz, g0, neg, &z, &p)
+}
+
+// sweepRescaled is the loop of sweepTransferFast where plainBound does not
+// hold: pointPos for ω > 0, the running product rescaled as it goes, and
+// sweepPointSlow where that cannot be done.
+func sweepRescaled(dst []Point, h filter.Transfer, hz []float64, g0 float64, neg bool, z, p *factorSet) {
 	for i, f := range hz {
 		w := 2 * math.Pi * f
 		if w > 0 {
-			if gdb, ph, d, ok := pointPos(g0, neg, &z, &p, w); ok {
+			if gdb, ph, d, ok := pointPos(g0, neg, z, p, w); ok {
 				dst[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * degPerRad, DelayS: d}
 				continue
 			}
 		}
-		sweepPointSlow(dst, i, h, g0, neg, &z, &p, f)
+		sweepPointSlow(dst, i, h, g0, neg, z, p, f)
 	}
 }
 

@@ -300,15 +300,7 @@ func TestPropPlainBoundSound(t *testing.T) {
 		want := make([]Point, n)
 		g0 := 20 * math.Log10(math.Abs(h.Gain))
 		sweepPlain(got, h, hz, g0, h.Gain < 0, &z, &p)
-		for i, f := range hz {
-			w := 2 * math.Pi * f
-			gdb, ph, d, ok := pointPos(g0, h.Gain < 0, &z, &p, w)
-			if !ok {
-				sweepPointSlow(want, i, h, g0, h.Gain < 0, &z, &p, f)
-				continue
-			}
-			want[i] = Point{Hz: f, GainDB: gdb, PhaseDeg: ph * degPerRad, DelayS: d}
-		}
+		sweepRescaled(want, h, hz, g0, h.Gain < 0, &z, &p)
 		for i := range hz {
 			g, w := got[i], want[i]
 			ds := delayScale(h, 2*math.Pi*hz[i])
